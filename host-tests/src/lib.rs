@@ -1,0 +1,9 @@
+//! Host-side support for feedline's tests: the independent f64 reference model.
+//!
+//! The reference model is written apart from the core and never calls it, so that a check
+//! of the core against it compares two independent computations of the same textbook
+//! formulas.
+#![forbid(unsafe_code)]
+#![deny(missing_docs)]
+
+pub mod reference;

@@ -1,0 +1,1 @@
+//! The independent f64 reference model (being written).

@@ -1,0 +1,31 @@
+//! # feedline
+//!
+//! A `no_std` library for the firmware of transmission-line analyzers and in-line line
+//! monitors: it turns raw detector readings from a directional bridge or coupler into
+//! numbers a builder can trust — reflection coefficient, VSWR, return loss, mismatch loss,
+//! cable loss, power — each with a quality verdict and an uncertainty.
+//!
+//! Data flows through the modules in one direction; each knows nothing of those after it:
+//!
+//! ```text
+//! readings ─► detector ─► bridge ─► reflection / uncertainty ─► cable ─► (line, sweep, report)
+//!  (ADC codes)  (linearize)  (|Γ| + verdict)  (VSWR, RL, ML, bounds)   (matched loss)
+//! ```
+//!
+//! Two numeric paths compute the per-reading chain: `f32` (libm) in [`bridge`] and friends,
+//! and integer fixed point in [`fixed`] for parts with no FPU. Each states its error bound
+//! against an f64 reference; the host tests hold it there.
+//!
+//! Panic policy: no public function panics, and none returns NaN or infinity. Bad readings
+//! give a typed error or a quality flag. A link-time proof in `boards/panic-proof` checks this
+//! mechanically.
+#![no_std]
+#![forbid(unsafe_code)]
+#![deny(missing_docs)]
+
+pub mod bridge;
+pub mod cable;
+pub mod detector;
+pub mod reflection;
+pub mod uncertainty;
+pub mod units;
