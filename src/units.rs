@@ -23,7 +23,7 @@
 use core::ops::{Add, Mul, Neg, Sub};
 
 /// Decibels per neper: 20·log10(e) (common practice: 8.686 dB per Np).
-pub const DB_PER_NP: f32 = 8.685_889_6;
+pub const DB_PER_NP: f32 = 8.685_889;
 
 macro_rules! scalar_unit {
     ($(#[$doc:meta])* $name:ident, $unit:literal) => {
