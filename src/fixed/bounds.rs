@@ -13,14 +13,11 @@
 //!
 //! Panic policy: nothing here panics.
 
-use super::chain::FixedMeasurement;
+use super::chain::{FixedMeasurement, FixedQuality};
 use super::exp2::exp2_neg_q31;
 use super::q::{DbQ16, GammaQ31, DB_CEILING_Q16};
-use super::relations::{from_gamma, FixedReflection};
+use super::relations::{from_gamma, FixedReflection, K_DB_TO_LOG2};
 use super::wide::mul_hi;
-
-/// 2^32 / (20·log10 2), rounded: dB (Q8.24) → log2 of the amplitude ratio (Q8.24).
-const K_DB_TO_LOG2: u32 = 713_378_626;
 
 /// The worst-case spread of a reading caused by finite bridge directivity.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -38,6 +35,14 @@ pub struct ReflectionBounds {
     pub low: FixedReflection,
     /// At |Γ| + leak (clamped to 1): the worst match the reading allows.
     pub high: FixedReflection,
+}
+
+impl ReflectionBounds {
+    /// True when the reading cannot be told from a perfect match: the leakage is as large as
+    /// the reading itself (the low bound's return loss is at the ceiling).
+    pub fn reaches_perfect_match(&self) -> bool {
+        self.low.gamma == GammaQ31::MATCHED || self.low.return_loss.to_bits() >= DB_CEILING_Q16
+    }
 }
 
 impl DirectivityBounds {
@@ -64,6 +69,16 @@ impl DirectivityBounds {
         }
     }
 
+    /// The bounds of a measurement; sets [`FixedQuality::BEYOND_DIRECTIVITY`] on it when the
+    /// reading cannot be told from a perfect match.
+    pub fn qualify(&self, measurement: &mut FixedMeasurement) -> ReflectionBounds {
+        let b = self.bounds(measurement.reflection.gamma);
+        if b.reaches_perfect_match() {
+            measurement.quality = measurement.quality.with(FixedQuality::BEYOND_DIRECTIVITY);
+        }
+        b
+    }
+
     /// Matched cable loss of a cable ended in an open or a short, with its bounds.
     pub fn cable_loss(&self, far_end_open_or_short: &FixedMeasurement) -> CableLoss {
         let r = &far_end_open_or_short.reflection;
@@ -72,7 +87,9 @@ impl DirectivityBounds {
             loss: matched_cable_loss(r.return_loss),
             low: matched_cable_loss(b.high.return_loss),
             high: matched_cable_loss(b.low.return_loss),
-            lower_bound_only: far_end_open_or_short.quality.reflected_below_floor,
+            lower_bound_only: far_end_open_or_short
+                .quality
+                .contains(FixedQuality::REFLECTED_AT_FLOOR),
         }
     }
 }
@@ -138,16 +155,17 @@ mod tests {
         let b = DirectivityBounds::new(DbQ16::from_int(20));
         let r = b.bounds(GammaQ31::from_bits(1 << 20));
         assert_eq!(r.low, FixedReflection::MATCHED);
+        assert!(r.reaches_perfect_match());
+        let chain = LinearChain::new(CodeLimits::new(4, 65_535)).unwrap();
+        let mut m = chain.measure(60_000, 3_000).unwrap(); // 26 dB, |Γ| = 0.05 < 0.1
+        b.qualify(&mut m);
+        assert!(m.quality.contains(FixedQuality::BEYOND_DIRECTIVITY));
     }
 
     #[test]
     fn cable_loss_from_open() {
         // A cable of 3 dB matched loss, far end open: RL 6 dB, |Γ| = 0.501; linear codes.
-        let chain = LinearChain::new(CodeLimits {
-            full_scale: 65_535,
-            floor: 4,
-        })
-        .unwrap();
+        let chain = LinearChain::new(CodeLimits::new(4, 65_535)).unwrap();
         let m = chain.measure(40_000, 20_047).unwrap(); // 20·log10(40000/20047) = 6.0002 dB
         let b = DirectivityBounds::new(DbQ16::from_int(35));
         let c = b.cable_loss(&m);

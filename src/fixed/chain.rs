@@ -29,21 +29,27 @@
 //! Panic policy: nothing here panics; constructors refuse bad configurations with
 //! [`FixedConfigError`].
 
-use super::exp2::exp2_neg_q31;
+use super::exp2::{exp2_neg_q31, exp2_q16};
 use super::log2::{log2_q24, ONE_Q24};
 use super::q::{DbQ16, DbmQ16, GammaQ31, DB_CEILING_Q16, GAMMA_ONE_Q31};
-use super::relations::{db10_from_log2, db20_from_log2, vswr_from_log2, FixedReflection};
+use super::relations::{
+    db10_from_log2, db20_from_log2, vswr_from_log2, FixedReflection, K_DB_TO_LOG2,
+};
 use super::wide::{mul_hi, mul_shr};
 
-/// Why a reading gives no measurement. Names as in the f32 path's `bridge::Fault`.
+/// Why a reading gives no measurement. Names and meaning as in the f32 path's
+/// `bridge::Fault` (the variants that cannot arise with integers are left out).
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub enum FixedFault {
     /// The forward reading is at or above the full-scale limit: the detector or ADC clips.
     ForwardSaturated,
-    /// The forward reading is below the noise floor (or zero): too little drive to measure.
+    /// The reflected reading is at or above the full-scale limit.
+    ReflectedSaturated,
+    /// The forward reading is at or below the noise floor (or zero): too little drive.
     ForwardBelowFloor,
-    /// The reflected reading exceeds the forward one: noise, or a reversed connection.
+    /// The reflected reading exceeds the forward one by more than the total-reflection
+    /// margin: noise, or the bridge connected backwards.
     ReflectedAboveForward,
 }
 
@@ -51,20 +57,57 @@ pub enum FixedFault {
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub enum FixedConfigError {
-    /// The floor is zero or not below the full-scale limit.
+    /// The floor is zero or not below the full-scale limit, or the total-reflection margin
+    /// is outside 0..=[`MAX_TOTAL_MARGIN_DB`] dB.
     BadLimits,
     /// A log-detector slope or ADC step of zero, or a dB-per-code figure that does not fit
     /// Q8.24 (256 dB per code or more, or below 2^-24 dB per code).
     BadScale,
 }
 
-/// Flags on a valid measurement. Names as in the f32 path's `bridge::Quality`.
+/// Flags that qualify a valid measurement; several may be set at once. The same flags, with
+/// the same bit values, as the f32 path's `bridge::Quality`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
-pub struct FixedQuality {
-    /// The reflected reading is below the noise floor: the return loss is a lower bound
-    /// (the match may be better than shown).
-    pub reflected_below_floor: bool,
+pub struct FixedQuality(u8);
+
+impl FixedQuality {
+    /// No reservations.
+    pub const GOOD: FixedQuality = FixedQuality(0);
+    /// The reflected reading was at or below the noise floor; the floor was used, so the
+    /// return loss is a lower bound and VSWR an upper bound.
+    pub const REFLECTED_AT_FLOOR: FixedQuality = FixedQuality(1);
+    /// The reflected reading was slightly above forward (within the margin); |Γ| set to 1.
+    pub const CLAMPED_TOTAL: FixedQuality = FixedQuality(2);
+    /// The reading is within the bridge's leakage of a perfect match (set by
+    /// [`super::DirectivityBounds::qualify`]).
+    pub const BEYOND_DIRECTIVITY: FixedQuality = FixedQuality(4);
+    /// A value reached its ceiling (100 dB or VSWR 1000).
+    pub const CAPPED: FixedQuality = FixedQuality(8);
+
+    /// True when no flag is set.
+    #[inline]
+    pub const fn is_good(self) -> bool {
+        self.0 == 0
+    }
+
+    /// True when every flag of `other` is set in `self`.
+    #[inline]
+    pub const fn contains(self, other: FixedQuality) -> bool {
+        self.0 & other.0 == other.0
+    }
+
+    /// The raw flag bits (for reports).
+    #[inline]
+    pub const fn bits(self) -> u8 {
+        self.0
+    }
+
+    /// `self` with the flags of `other` added.
+    #[inline]
+    pub const fn with(self, other: FixedQuality) -> FixedQuality {
+        FixedQuality(self.0 | other.0)
+    }
 }
 
 /// One measurement from the integer chain.
@@ -73,41 +116,133 @@ pub struct FixedQuality {
 pub struct FixedMeasurement {
     /// |Γ|, VSWR, return loss, mismatch loss (with the `capped` flag).
     pub reflection: FixedReflection,
-    /// Quality flags.
+    /// Reservations about this reading.
     pub quality: FixedQuality,
+}
+
+impl FixedMeasurement {
+    #[inline]
+    fn new(reflection: FixedReflection, quality: FixedQuality) -> Self {
+        let quality = if reflection.capped {
+            quality.with(FixedQuality::CAPPED)
+        } else {
+            quality
+        };
+        Self {
+            reflection,
+            quality,
+        }
+    }
+}
+
+/// The largest total-reflection margin accepted, in whole dB.
+pub const MAX_TOTAL_MARGIN_DB: i16 = 3;
+
+/// The usual total-reflection margin, 0.5 dB (common practice for detector noise on an
+/// open or short; the f32 path's `BridgeSpec::new` uses the same).
+pub const DEFAULT_TOTAL_MARGIN: DbQ16 = DbQ16::from_bits(1 << 15);
+
+fn margin_ok(m: DbQ16) -> bool {
+    m.to_bits() >= 0 && m <= DbQ16::from_int(MAX_TOTAL_MARGIN_DB)
 }
 
 /// Limits of a code-reading detector (linear or square law).
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct CodeLimits {
-    /// A forward code at or above this is saturated (e.g. the ADC's largest code).
+    /// A code at or above this is saturated (e.g. the ADC's largest code).
     pub full_scale: u16,
-    /// Codes below this are noise (≥ 1; a zero code is always below the floor).
+    /// Codes at or below this are noise (≥ 1).
     pub floor: u16,
+    /// How far the reflected reading may exceed the forward one (noise on a total
+    /// reflection) and still be taken as |Γ| = 1; 0..=3 dB.
+    pub total_margin: DbQ16,
 }
 
 impl CodeLimits {
-    fn check(self) -> Result<Self, FixedConfigError> {
-        if self.floor == 0 || self.floor >= self.full_scale {
-            Err(FixedConfigError::BadLimits)
-        } else {
-            Ok(self)
+    /// Limits with the usual 0.5 dB total-reflection margin.
+    pub const fn new(floor: u16, full_scale: u16) -> Self {
+        Self {
+            full_scale,
+            floor,
+            total_margin: DEFAULT_TOTAL_MARGIN,
         }
+    }
+}
+
+/// What the verdict leaves for the arithmetic.
+enum Verdict {
+    /// |Γ| = 1.
+    Total(FixedQuality),
+    /// 0 < r < f: compute.
+    Partial(u32, u32, FixedQuality),
+}
+
+/// Code limits with the margin as a Q0.16 code factor, worked out once.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+struct CodeVerdict {
+    full_scale: u16,
+    floor: u16,
+    /// r may reach f + f · margin_q16 / 2^16 and count as a total reflection.
+    margin_q16: u32,
+}
+
+impl CodeVerdict {
+    /// `power_law`: codes ∝ power (the margin in dB is 10·log10 of a code ratio), else ∝
+    /// amplitude (20·log10).
+    fn new(limits: CodeLimits, power_law: bool) -> Result<Self, FixedConfigError> {
+        if limits.floor == 0 || limits.floor >= limits.full_scale || !margin_ok(limits.total_margin)
+        {
+            return Err(FixedConfigError::BadLimits);
+        }
+        // 10^(m/20) = 2^(m / (20·log10 2)); for power codes 10^(m/10) = 2^(2m / (20·log10 2)).
+        let m24 = (limits.total_margin.to_bits() as u32) << 8; // ≤ 3 dB in Q8.24
+        let mut e = mul_hi(m24, K_DB_TO_LOG2);
+        if power_law {
+            e <<= 1;
+        }
+        // 2^e ≤ 2 (3 dB of power): the factor minus one is < 2^16.
+        let factor = exp2_q16(e);
+        Ok(Self {
+            full_scale: limits.full_scale,
+            floor: limits.floor,
+            margin_q16: factor.saturating_sub(1 << 16).min(0xFFFF),
+        })
     }
 
     #[inline]
-    fn verdict(self, f: u16, r: u16) -> Result<FixedQuality, FixedFault> {
+    fn verdict(self, f: u16, r: u16) -> Result<Verdict, FixedFault> {
         if f >= self.full_scale {
-            Err(FixedFault::ForwardSaturated)
-        } else if f < self.floor {
-            Err(FixedFault::ForwardBelowFloor)
-        } else if r > f {
-            Err(FixedFault::ReflectedAboveForward)
+            return Err(FixedFault::ForwardSaturated);
+        }
+        if r >= self.full_scale {
+            return Err(FixedFault::ReflectedSaturated);
+        }
+        if f <= self.floor {
+            return Err(FixedFault::ForwardBelowFloor);
+        }
+        let (f32_, r32) = (u32::from(f), u32::from(r));
+        if r32 > f32_ {
+            // f < 2^16 and margin < 2^16: the product is < 2^32.
+            let allowed = f32_ + ((f32_ * self.margin_q16) >> 16);
+            return if r32 <= allowed {
+                Ok(Verdict::Total(FixedQuality::CLAMPED_TOTAL))
+            } else {
+                Err(FixedFault::ReflectedAboveForward)
+            };
+        }
+        if r32 == f32_ {
+            return Ok(Verdict::Total(FixedQuality::GOOD));
+        }
+        if r <= self.floor {
+            Ok(Verdict::Partial(
+                f32_,
+                u32::from(self.floor),
+                FixedQuality::REFLECTED_AT_FLOOR,
+            ))
         } else {
-            Ok(FixedQuality {
-                reflected_below_floor: r < self.floor,
-            })
+            Ok(Verdict::Partial(f32_, r32, FixedQuality::GOOD))
         }
     }
 }
@@ -116,34 +251,63 @@ impl CodeLimits {
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct DbmLimits {
-    /// A forward power at or above this is saturated (top of the detector's range).
+    /// A power at or above this is saturated (top of the detector's range).
     pub max: DbmQ16,
-    /// Powers below this are noise (bottom of the detector's range).
+    /// Powers at or below this are noise (bottom of the detector's range).
     pub floor: DbmQ16,
+    /// How far the reflected power may exceed the forward one and still be taken as
+    /// |Γ| = 1; 0..=3 dB.
+    pub total_margin: DbQ16,
 }
 
 impl DbmLimits {
+    /// Limits with the usual 0.5 dB total-reflection margin.
+    pub const fn new(floor: DbmQ16, max: DbmQ16) -> Self {
+        Self {
+            max,
+            floor,
+            total_margin: DEFAULT_TOTAL_MARGIN,
+        }
+    }
+
     fn check(self) -> Result<Self, FixedConfigError> {
-        if self.floor >= self.max {
+        if self.floor >= self.max || !margin_ok(self.total_margin) {
             Err(FixedConfigError::BadLimits)
         } else {
             Ok(self)
         }
     }
 
+    /// The verdict; on success the dB difference d = forward − reflected used (Q16.16,
+    /// ≥ 0; the floor replaces a reflected power at or below it), or `None` for |Γ| = 1.
     #[inline]
-    fn verdict(self, pf: DbmQ16, pr: DbmQ16) -> Result<FixedQuality, FixedFault> {
+    fn verdict(self, pf: DbmQ16, pr: DbmQ16) -> Result<(Option<u32>, FixedQuality), FixedFault> {
         if pf >= self.max {
-            Err(FixedFault::ForwardSaturated)
-        } else if pf < self.floor {
-            Err(FixedFault::ForwardBelowFloor)
-        } else if pr > pf {
-            Err(FixedFault::ReflectedAboveForward)
-        } else {
-            Ok(FixedQuality {
-                reflected_below_floor: pr < self.floor,
-            })
+            return Err(FixedFault::ForwardSaturated);
         }
+        if pr >= self.max {
+            return Err(FixedFault::ReflectedSaturated);
+        }
+        if pf <= self.floor {
+            return Err(FixedFault::ForwardBelowFloor);
+        }
+        if pr > pf {
+            return if pr - pf <= self.total_margin {
+                Ok((None, FixedQuality::CLAMPED_TOTAL))
+            } else {
+                Err(FixedFault::ReflectedAboveForward)
+            };
+        }
+        if pr == pf {
+            return Ok((None, FixedQuality::GOOD));
+        }
+        let (used, q) = if pr <= self.floor {
+            (self.floor, FixedQuality::REFLECTED_AT_FLOOR)
+        } else {
+            (pr, FixedQuality::GOOD)
+        };
+        // pf > used: the difference is positive (saturated at i32::MAX).
+        Ok((Some((pf - used).to_bits().max(0) as u32), q))
     }
 }
 
@@ -153,31 +317,23 @@ const THIRTY_ONE_Q24: i32 = 31 * ONE_Q24;
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct LinearChain {
-    limits: CodeLimits,
+    limits: CodeVerdict,
 }
 
 impl LinearChain {
-    /// A chain with these limits; refused when the floor is 0 or not below full scale.
+    /// A chain with these limits; refused when the floor is 0 or not below full scale, or
+    /// the margin is out of range.
     pub fn new(limits: CodeLimits) -> Result<Self, FixedConfigError> {
         Ok(Self {
-            limits: limits.check()?,
+            limits: CodeVerdict::new(limits, false)?,
         })
     }
 
     /// The verdict and reflection quantities for one forward and one reflected code.
     pub fn measure(&self, forward: u16, reflected: u16) -> Result<FixedMeasurement, FixedFault> {
-        let quality = self.limits.verdict(forward, reflected)?;
-        let (f, r) = (u32::from(forward), u32::from(reflected));
-        let reflection = if r == 0 {
-            FixedReflection::MATCHED
-        } else if r == f {
-            FixedReflection::TOTAL
-        } else {
-            linear_core(f, r)
-        };
-        Ok(FixedMeasurement {
-            reflection,
-            quality,
+        Ok(match self.limits.verdict(forward, reflected)? {
+            Verdict::Total(q) => FixedMeasurement::new(FixedReflection::TOTAL, q),
+            Verdict::Partial(f, r, q) => FixedMeasurement::new(linear_core(f, r), q),
         })
     }
 }
@@ -208,31 +364,23 @@ fn linear_core(f: u32, r: u32) -> FixedReflection {
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct SquareLawChain {
-    limits: CodeLimits,
+    limits: CodeVerdict,
 }
 
 impl SquareLawChain {
-    /// A chain with these limits; refused when the floor is 0 or not below full scale.
+    /// A chain with these limits; refused when the floor is 0 or not below full scale, or
+    /// the margin is out of range.
     pub fn new(limits: CodeLimits) -> Result<Self, FixedConfigError> {
         Ok(Self {
-            limits: limits.check()?,
+            limits: CodeVerdict::new(limits, true)?,
         })
     }
 
     /// The verdict and reflection quantities for one forward and one reflected code.
     pub fn measure(&self, forward: u16, reflected: u16) -> Result<FixedMeasurement, FixedFault> {
-        let quality = self.limits.verdict(forward, reflected)?;
-        let (f, r) = (u32::from(forward), u32::from(reflected));
-        let reflection = if r == 0 {
-            FixedReflection::MATCHED
-        } else if r == f {
-            FixedReflection::TOTAL
-        } else {
-            square_core(f, r)
-        };
-        Ok(FixedMeasurement {
-            reflection,
-            quality,
+        Ok(match self.limits.verdict(forward, reflected)? {
+            Verdict::Total(q) => FixedMeasurement::new(FixedReflection::TOTAL, q),
+            Verdict::Partial(f, r, q) => FixedMeasurement::new(square_core(f, r), q),
         })
     }
 }
@@ -262,8 +410,6 @@ fn square_core(f: u32, r: u32) -> FixedReflection {
     }
 }
 
-/// 2^32 / (20·log10 2), rounded: dB (Q8.24) → −log2|Γ| (Q8.24).
-const K_DB_TO_LOG2: u32 = 713_378_626;
 /// ln 10 / 20 · 2^32, rounded: dB (Q8.24) → y = −ln|Γ| (Q8.24).
 const K_DB_TO_LN: u32 = 494_476_384;
 /// log2(ln 10 / 20) in Q8.24 (−3.1187…).
@@ -343,18 +489,13 @@ impl DbmChain {
         forward: DbmQ16,
         reflected: DbmQ16,
     ) -> Result<FixedMeasurement, FixedFault> {
-        let quality = self.limits.verdict(forward, reflected)?;
-        // forward ≥ reflected, so the difference is ≥ 0 (saturated at i32::MAX).
-        let d16 = (forward - reflected).to_bits().max(0) as u32;
-        let d = if d16 >= DB_CEILING_Q16 as u32 {
-            DB_CEILING_Q24
-        } else {
-            d16 << 8
+        let (d16, quality) = self.limits.verdict(forward, reflected)?;
+        let reflection = match d16 {
+            None => FixedReflection::TOTAL,
+            Some(d16) if d16 >= DB_CEILING_Q16 as u32 => from_db_difference(DB_CEILING_Q24),
+            Some(d16) => from_db_difference(d16 << 8),
         };
-        Ok(FixedMeasurement {
-            reflection: from_db_difference(d),
-            quality,
-        })
+        Ok(FixedMeasurement::new(reflection, quality))
     }
 }
 
@@ -425,22 +566,30 @@ impl LogDetectorChain {
     pub fn measure(&self, forward: u16, reflected: u16) -> Result<FixedMeasurement, FixedFault> {
         let pf = self.power(forward);
         let pr = self.power(reflected);
-        let quality = self.limits.verdict(pf, pr)?;
-        // The code difference in the direction of rising power; a negative one is a
-        // reflected reading above the forward one even when the rounded powers tie.
-        let dc = if self.falling {
-            i32::from(reflected) - i32::from(forward)
-        } else {
-            i32::from(forward) - i32::from(reflected)
+        let (d16, quality) = self.limits.verdict(pf, pr)?;
+        let reflection = match d16 {
+            None => FixedReflection::TOTAL,
+            Some(_) if quality.contains(FixedQuality::REFLECTED_AT_FLOOR) => {
+                // The floor replaced the reflected power: use the power difference.
+                let d16 = d16.unwrap_or(0);
+                if d16 >= DB_CEILING_Q16 as u32 {
+                    from_db_difference(DB_CEILING_Q24)
+                } else {
+                    from_db_difference(d16 << 8)
+                }
+            }
+            Some(_) => {
+                // The code difference in the direction of rising power, ≥ 0 because the
+                // powers are monotonic in the code and pr < pf; exact to Q8.24.
+                let dc = if self.falling {
+                    reflected.saturating_sub(forward)
+                } else {
+                    forward.saturating_sub(reflected)
+                };
+                from_db_difference(mul_shr(u32::from(dc), self.db_per_code_q24, 0))
+            }
         };
-        if dc < 0 {
-            return Err(FixedFault::ReflectedAboveForward);
-        }
-        let d = mul_shr(dc as u32, self.db_per_code_q24, 0); // Q8.24, saturating
-        Ok(FixedMeasurement {
-            reflection: from_db_difference(d),
-            quality,
-        })
+        Ok(FixedMeasurement::new(reflection, quality))
     }
 }
 
@@ -448,10 +597,7 @@ impl LogDetectorChain {
 mod tests {
     use super::*;
 
-    const LIMITS: CodeLimits = CodeLimits {
-        full_scale: 65_535,
-        floor: 4,
-    };
+    const LIMITS: CodeLimits = CodeLimits::new(4, 65_535);
 
     fn db(x: DbQ16) -> f64 {
         f64::from(x.to_bits()) / 65_536.0
@@ -486,7 +632,7 @@ mod tests {
                 (db(m.reflection.mismatch_loss) - ml).abs() < ML_TOL_DB,
                 "{f} {r}"
             );
-            assert!(!m.quality.reflected_below_floor);
+            assert!(m.quality.is_good());
         }
     }
 
@@ -506,11 +652,8 @@ mod tests {
 
     #[test]
     fn dbm_vectors() {
-        let chain = DbmChain::new(DbmLimits {
-            max: DbmQ16::from_int(30),
-            floor: DbmQ16::from_int(-60),
-        })
-        .unwrap();
+        let chain =
+            DbmChain::new(DbmLimits::new(DbmQ16::from_int(-60), DbmQ16::from_int(30))).unwrap();
         // 20 dB apart: |Γ| = 0.1.
         let m = chain
             .measure(DbmQ16::from_int(10), DbmQ16::from_int(-10))
@@ -532,9 +675,16 @@ mod tests {
             Err(FixedFault::ReflectedAboveForward)
         );
         let m = chain
+            .measure(DbmQ16::from_int(0), DbmQ16::from_centi(40))
+            .unwrap();
+        assert_eq!(m.reflection, FixedReflection::TOTAL);
+        assert!(m.quality.contains(FixedQuality::CLAMPED_TOTAL));
+        // Reflected below the floor: the floor is used, RL 60 dB is a lower bound.
+        let m = chain
             .measure(DbmQ16::from_int(0), DbmQ16::from_int(-70))
             .unwrap();
-        assert!(m.quality.reflected_below_floor);
+        assert!(m.quality.contains(FixedQuality::REFLECTED_AT_FLOOR));
+        assert_eq!(m.reflection.return_loss, DbQ16::from_int(60));
         assert_eq!(
             chain.measure(DbmQ16::from_int(30), DbmQ16::from_int(0)),
             Err(FixedFault::ForwardSaturated)
@@ -552,10 +702,7 @@ mod tests {
             adc_nv_per_code: 805_664,
             slope_uv_per_db: -25_000,
             intercept: DbmQ16::from_int(20),
-            limits: DbmLimits {
-                max: DbmQ16::from_int(0),
-                floor: DbmQ16::from_int(-60),
-            },
+            limits: DbmLimits::new(DbmQ16::from_int(-60), DbmQ16::from_int(0)),
         })
         .unwrap();
         // Code 1000 → 0.805664 V → 20 − 32.2266 = −12.2266 dBm.
@@ -566,7 +713,7 @@ mod tests {
         let want = 621.0 * 805_664.0e-9 / 25e-3;
         assert!((db(m.reflection.return_loss) - want).abs() < RL_TOL_DB);
         assert_eq!(
-            chain.measure(1000, 999),
+            chain.measure(1000, 900),
             Err(FixedFault::ReflectedAboveForward)
         );
         assert_eq!(chain.measure(0, 100), Err(FixedFault::ForwardSaturated));
@@ -575,10 +722,7 @@ mod tests {
                 adc_nv_per_code: 1,
                 slope_uv_per_db: 0,
                 intercept: DbmQ16::ZERO,
-                limits: DbmLimits {
-                    max: DbmQ16::from_int(0),
-                    floor: DbmQ16::from_int(-60),
-                },
+                limits: DbmLimits::new(DbmQ16::from_int(-60), DbmQ16::from_int(0)),
             }),
             Err(FixedConfigError::BadScale)
         );
@@ -588,30 +732,46 @@ mod tests {
     fn verdicts_and_zero_codes() {
         let chain = LinearChain::new(LIMITS).unwrap();
         assert_eq!(chain.measure(65_535, 0), Err(FixedFault::ForwardSaturated));
-        assert_eq!(chain.measure(0, 0), Err(FixedFault::ForwardBelowFloor));
-        assert_eq!(chain.measure(3, 0), Err(FixedFault::ForwardBelowFloor));
         assert_eq!(
-            chain.measure(100, 101),
+            chain.measure(100, 65_535),
+            Err(FixedFault::ReflectedSaturated)
+        );
+        assert_eq!(chain.measure(0, 0), Err(FixedFault::ForwardBelowFloor));
+        assert_eq!(chain.measure(4, 0), Err(FixedFault::ForwardBelowFloor));
+        // 0.5 dB margin: 100 · 10^(0.5/20) = 105.9.
+        let m = chain.measure(100, 105).unwrap();
+        assert_eq!(m.reflection, FixedReflection::TOTAL);
+        assert!(m.quality.contains(FixedQuality::CLAMPED_TOTAL));
+        assert!(m.quality.contains(FixedQuality::CAPPED));
+        assert_eq!(
+            chain.measure(100, 107),
             Err(FixedFault::ReflectedAboveForward)
         );
+        // A zero reflected code reads as the floor: RL 20·log10(100/4) = 27.959 dB, a
+        // lower bound.
         let m = chain.measure(100, 0).unwrap();
-        assert_eq!(m.reflection, FixedReflection::MATCHED);
-        assert!(m.quality.reflected_below_floor);
+        assert!((db(m.reflection.return_loss) - 27.959_4).abs() < RL_TOL_DB);
+        assert!(m.quality.contains(FixedQuality::REFLECTED_AT_FLOOR));
         let m = chain.measure(100, 100).unwrap();
         assert_eq!(m.reflection, FixedReflection::TOTAL);
+        assert!(!m.quality.contains(FixedQuality::CLAMPED_TOTAL));
         assert_eq!(
-            LinearChain::new(CodeLimits {
-                full_scale: 10,
-                floor: 0
-            }),
+            LinearChain::new(CodeLimits::new(0, 10)),
             Err(FixedConfigError::BadLimits)
         );
         assert_eq!(
-            SquareLawChain::new(CodeLimits {
-                full_scale: 10,
-                floor: 10
-            }),
+            SquareLawChain::new(CodeLimits::new(10, 10)),
             Err(FixedConfigError::BadLimits)
+        );
+        let mut l = CodeLimits::new(1, 10);
+        l.total_margin = DbQ16::from_int(4);
+        assert_eq!(LinearChain::new(l), Err(FixedConfigError::BadLimits));
+        // Square law: the 0.5 dB margin is a power ratio 1.122.
+        let sq = SquareLawChain::new(LIMITS).unwrap();
+        assert!(sq.measure(1000, 1120).is_ok());
+        assert_eq!(
+            sq.measure(1000, 1125),
+            Err(FixedFault::ReflectedAboveForward)
         );
     }
 }

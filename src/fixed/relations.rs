@@ -25,6 +25,8 @@ use super::wide::mul_hi;
 pub(crate) const K20: u32 = 101_008_905;
 /// (10·log10 2)/256 · 2^32, rounded: Q8.24 log2 → Q16.16 dB (power ratio).
 pub(crate) const K10: u32 = 50_504_453;
+/// 2^32 / (20·log10 2), rounded: dB (Q8.24) → log2 of the amplitude ratio (Q8.24).
+pub(crate) const K_DB_TO_LOG2: u32 = 713_378_626;
 /// log2(1000) in Q8.24: the logarithm of the VSWR ceiling.
 pub(crate) const LOG2_VSWR_CEILING_Q24: i32 = 167_198_116;
 
