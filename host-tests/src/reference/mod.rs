@@ -3,5 +3,6 @@
 //! Written apart from the core and never calling it: each file restates the textbook
 //! formulas in f64 so that the host tests compare two independent computations.
 
+pub mod bridge_sim;
 pub mod fixed_scalar;
 pub mod scalar;
