@@ -16,13 +16,16 @@
 //! | [`Meters`] | length | |
 //! | [`Watts`] | power | |
 //! | [`Dbm`] | absolute power, dB relative to 1 mW | `Dbm - Dbm = Db`, `Dbm + Db = Dbm` |
+//! | [`Henries`], [`Farads`] | inductance, capacitance | equivalent L or C of a reactance |
+//! | [`Siemens`] | conductance or susceptance | |
+//! | [`Seconds`] | time, e.g. an offset delay | |
 //!
 //! Panic policy: nothing in this module panics.
 
 use core::ops::{Add, Mul, Neg, Sub};
 
 /// Decibels per neper: 20·log10(e) (common practice: 8.686 dB per Np).
-pub const DB_PER_NP: f32 = 8.685_889_6;
+pub const DB_PER_NP: f32 = 8.685_889;
 
 macro_rules! scalar_unit {
     ($(#[$doc:meta])* $name:ident, $unit:literal) => {
@@ -314,3 +317,25 @@ mod tests {
         assert_eq!(Watts::new(0.0).to_dbm(), None);
     }
 }
+
+// Units added for vector impedance and calibration-standard models.
+scalar_unit!(
+    /// An inductance in henries.
+    Henries,
+    "H"
+);
+scalar_unit!(
+    /// A capacitance in farads.
+    Farads,
+    "F"
+);
+scalar_unit!(
+    /// A conductance, susceptance or admittance magnitude in siemens.
+    Siemens,
+    "S"
+);
+scalar_unit!(
+    /// A time interval (for example an offset delay) in seconds.
+    Seconds,
+    "s"
+);
