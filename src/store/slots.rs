@@ -347,7 +347,11 @@ impl<F: NorFlash> Store<F> {
         let (target, sequence) = match Self::newest::<R>(a, b) {
             Some((Slot::A, s, _, _)) => (Slot::B, s.wrapping_add(1)),
             Some((Slot::B, s, _, _)) => (Slot::A, s.wrapping_add(1)),
-            None => (Slot::A, 1),
+            // No record of this type yet: prefer a slot that holds no intact record.
+            None => match (a, b) {
+                (SlotState::Intact { .. }, SlotState::Blank | SlotState::Damaged) => (Slot::B, 1),
+                _ => (Slot::A, 1),
+            },
         };
         // Encode the payload in place after the header.
         let area_end = HEADER_LEN
