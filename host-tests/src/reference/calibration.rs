@@ -101,9 +101,9 @@ pub fn impedance(g: Complex64, z0: f64) -> Complex64 {
     z0 * (1.0 + g) / (1.0 - g)
 }
 
-/// Y = 1/Z.
+/// Y = 1/Z = (1/Z0)·(1 − Γ)/(1 + Γ).
 pub fn admittance(g: Complex64, z0: f64) -> Complex64 {
-    1.0 / impedance(g, z0)
+    (1.0 - g) / (1.0 + g) / z0
 }
 
 /// Γ = (Z − Z0)/(Z + Z0).
