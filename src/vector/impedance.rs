@@ -25,7 +25,7 @@
 
 use num_complex::Complex32;
 
-use super::{check_raw_gamma, finite, VectorError, FREQUENCY_LIMIT_HZ};
+use super::{check_raw_gamma, finite, VectorError, FREQUENCY_LIMIT_HZ, FREQUENCY_MIN_HZ};
 use crate::units::{Farads, Henries, Hertz, Ohms, Siemens};
 
 /// The cap on |Z|/Z0 and on |Y|·Z0 (10⁶: 50 MΩ or 20 µS·10⁶ at Z0 = 50 Ω).
@@ -67,7 +67,7 @@ fn check_z0(z0: Ohms) -> Result<f32, VectorError> {
 
 fn check_frequency(f: Hertz) -> Result<f32, VectorError> {
     let v = finite(f.value())?;
-    if v > 0.0 && v <= FREQUENCY_LIMIT_HZ {
+    if (FREQUENCY_MIN_HZ..=FREQUENCY_LIMIT_HZ).contains(&v) {
         Ok(v)
     } else {
         Err(VectorError::OutOfRange)

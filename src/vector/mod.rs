@@ -34,6 +34,10 @@ pub use phase_sign::{resolve_phase_sign, Ambiguity, PhaseSign, PhaseSignConfig};
 /// The largest magnitude accepted for each component (real, imaginary) of a raw complex Γ.
 pub const RAW_GAMMA_LIMIT: f32 = 100.0;
 
+/// The lowest frequency accepted where a frequency enters a computation (1 mHz): keeps the
+/// equivalent L and C finite.
+pub const FREQUENCY_MIN_HZ: f32 = 1.0e-3;
+
 /// The highest frequency accepted where a frequency enters a computation (1 THz).
 pub const FREQUENCY_LIMIT_HZ: f32 = 1.0e12;
 
@@ -44,7 +48,7 @@ pub enum VectorError {
     /// NaN or infinity given.
     NotFinite,
     /// A value outside its accepted range (Γ component beyond [`RAW_GAMMA_LIMIT`],
-    /// a non-positive reference impedance, a frequency ≤ 0 or above
+    /// a reference impedance outside 1 mΩ…1 MΩ, a frequency below [`FREQUENCY_MIN_HZ`] or above
     /// [`FREQUENCY_LIMIT_HZ`], a magnitude ratio above 40 dB, …).
     OutOfRange,
     /// The reference (incident) wave is too small to divide by.

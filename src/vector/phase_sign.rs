@@ -32,7 +32,7 @@
 use num_complex::Complex32;
 
 use super::impedance::Impedance;
-use super::{check_raw_gamma, finite, VectorError, FREQUENCY_LIMIT_HZ};
+use super::{check_raw_gamma, finite, VectorError, FREQUENCY_LIMIT_HZ, FREQUENCY_MIN_HZ};
 use crate::units::{Hertz, Ohms};
 
 /// The verdict on the sign of the phase.
@@ -99,7 +99,7 @@ impl Default for PhaseSignConfig {
 
 fn sign_parts(f: Hertz, upper: Complex32, z0: Ohms) -> Result<(f32, f32, f32), VectorError> {
     let fv = finite(f.value())?;
-    if !(fv > 0.0 && fv <= FREQUENCY_LIMIT_HZ) {
+    if !(FREQUENCY_MIN_HZ..=FREQUENCY_LIMIT_HZ).contains(&fv) {
         return Err(VectorError::OutOfRange);
     }
     let g = check_raw_gamma(upper)?;
