@@ -6,8 +6,9 @@
 //!
 //! Cost of [`OnePortTerms::correct`]: a range check of the input, one complex subtraction,
 //! one complex multiply-add, and one complex division done as one reciprocal and four
-//! multiplies — about 30 floating-point operations, within a budget of 150 instructions
-//! on a Cortex-M4F.
+//! multiplies — about 30 floating-point operations. Measured: 52 instructions executed on
+//! the success path (one `vdiv.f32`) for `thumbv7em-none-eabihf`, `opt-level = "s"`, read
+//! from the `--emit asm` listing of a non-inlined wrapper; the budget is 150.
 //!
 //! Panic policy: nothing here panics; bad input gives a [`CalError`].
 
