@@ -15,6 +15,7 @@
 //! | [`Ohms`] | resistance or reactance | |
 //! | [`Meters`] | length | |
 //! | [`Watts`] | power | |
+//! | [`Volts`] | detector output, ADC reference | |
 //! | [`Dbm`] | absolute power, dB relative to 1 mW | `Dbm - Dbm = Db`, `Dbm + Db = Dbm` |
 //! | [`Henries`], [`Farads`] | inductance, capacitance | equivalent L or C of a reactance |
 //! | [`Siemens`] | conductance or susceptance | |
@@ -127,6 +128,11 @@ scalar_unit!(
     /// A power in watts.
     Watts,
     "W"
+);
+scalar_unit!(
+    /// An electric potential in volts (detector outputs, ADC reference).
+    Volts,
+    "V"
 );
 
 /// An absolute power level in dB relative to one milliwatt.

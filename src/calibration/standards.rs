@@ -12,7 +12,7 @@
 //! Coefficient units follow the usual scaling (common practice): C0 in fF, C1 in
 //! 10⁻²⁷ F/Hz, C2 in 10⁻³⁶ F/Hz², C3 in 10⁻⁴⁵ F/Hz³; L0 in pH, L1 in 10⁻²⁴ H/Hz, L2 in
 //! 10⁻³³ H/Hz², L3 in 10⁻⁴² H/Hz³. With f in GHz (f_G) both polynomials become
-//! C[fF] = C0 + 10⁻³·(C1·f_G + C2·f_G² + C3·f_G³), and the same for L[pH], which keeps every
+//! C (in fF) = C0 + 10⁻³·(C1·f_G + C2·f_G² + C3·f_G³), and the same for L (in pH), which keeps every
 //! intermediate a normal `f32` (10⁻⁴⁵ in SI would not be).
 //!
 //! Not supported: offset loss, an offset impedance other than the reference Z0, a load with

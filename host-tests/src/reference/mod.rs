@@ -1,6 +1,7 @@
 //! The independent f64 reference model.
 //!
-//! Each file here restates textbook formulas in `f64` (with `num-complex` for complex
-//! values) and never calls the `feedline` core.
+//! Written apart from the core and never calling it: each file restates the textbook
+//! formulas in f64 so that the host tests compare two independent computations.
 
 pub mod calibration;
+pub mod scalar;
