@@ -13,6 +13,7 @@
 use heapless::Vec;
 use num_complex::Complex32;
 
+use super::standards::StandardsModel;
 use super::terms::OnePortTerms;
 use super::{finite, CalError};
 use crate::units::Hertz;
@@ -109,6 +110,22 @@ impl<const N: usize> CalTable<N> {
             }
         }
         self.points.insert(idx, point).map_err(|_| CalError::Full)
+    }
+
+    /// Solves the terms at `f` from raw open, short and load readings and the standards'
+    /// `model` ([`OnePortTerms::from_standards`]) and inserts them.
+    pub fn calibrate_point(
+        &mut self,
+        f: Hertz,
+        measured_open: Complex32,
+        measured_short: Complex32,
+        measured_load: Complex32,
+        model: &StandardsModel,
+    ) -> Result<OnePortTerms, CalError> {
+        let terms =
+            OnePortTerms::from_standards(measured_open, measured_short, measured_load, model, f)?;
+        self.insert(f, terms)?;
+        Ok(terms)
     }
 
     /// The terms at frequency `f`: the stored ones at a calibration frequency, linearly

@@ -25,10 +25,13 @@
 //! (all powers of two). Every byte of the layout is checked on load, so any single-bit
 //! flip is detected.
 //!
-//! CRC: CRC-32C (Castagnoli, the `crc` crate's `CRC_32_ISCSI`), which detects every burst of
-//! up to 32 bits and every error of up to 3 bits in records of this size (Castagnoli,
-//! Bräuer, Herrmann, IEEE Trans. Communications 41(6), 1993). The `crc` crate is `no_std`;
-//! its one-lane table costs 1 KiB of flash.
+//! CRC: CRC-32C (Castagnoli polynomial 0x1EDC6F41, the `crc` crate's `CRC_32_ISCSI`;
+//! G. Castagnoli, S. Bräuer, M. Herrmann, IEEE Trans. Communications 41(6), 1993). Like any
+//! 32-bit CRC it detects every burst error up to 32 bits long, so every single-bit flip;
+//! its Hamming distance is at least 4 for any record a slot can hold (from memory, after
+//! P. Koopman's CRC tables). The host tests flip every bit of a stored record and check
+//! that each flip is caught. The `crc` crate is `no_std`; its one-lane table costs 1 KiB of
+//! flash (256 × `u32`).
 //!
 //! # Records
 //! Anything implementing [`Record`] can be stored: a type tag, a version, and an

@@ -372,16 +372,22 @@ impl<F: NorFlash> Store<F> {
         }
         let len32 = u32::try_from(len).map_err(|_| StoreError::RecordTooLarge)?;
         let image = buf.get_mut(..total).ok_or(StoreError::BufferTooSmall)?;
-        let mut header = [0u8; HEADER_LEN];
-        header[..4].copy_from_slice(&MAGIC);
-        header[4..6].copy_from_slice(&R::TYPE_TAG.to_le_bytes());
-        header[6..8].copy_from_slice(&R::VERSION.to_le_bytes());
-        header[8..12].copy_from_slice(&sequence.to_le_bytes());
-        header[12..16].copy_from_slice(&len32.to_le_bytes());
-        image
+        let tag = R::TYPE_TAG.to_le_bytes();
+        let version = R::VERSION.to_le_bytes();
+        let seq = sequence.to_le_bytes();
+        let len_bytes = len32.to_le_bytes();
+        let header = MAGIC
+            .iter()
+            .chain(&tag)
+            .chain(&version)
+            .chain(&seq)
+            .chain(&len_bytes);
+        let head = image
             .get_mut(..HEADER_LEN)
-            .ok_or(StoreError::BufferTooSmall)?
-            .copy_from_slice(&header);
+            .ok_or(StoreError::BufferTooSmall)?;
+        for (dst, src) in head.iter_mut().zip(header) {
+            *dst = *src;
+        }
         let crc_pos = body - CRC_LEN;
         image
             .get_mut(HEADER_LEN + len..crc_pos)
