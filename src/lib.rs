@@ -25,7 +25,11 @@
 
 pub mod bridge;
 pub mod cable;
+pub mod calibration;
 pub mod detector;
+pub mod fixed;
 pub mod reflection;
+pub mod store;
 pub mod uncertainty;
 pub mod units;
+pub mod vector;

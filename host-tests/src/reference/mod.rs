@@ -4,4 +4,6 @@
 //! formulas in f64 so that the host tests compare two independent computations.
 
 pub mod bridge_sim;
+pub mod calibration;
+pub mod fixed_scalar;
 pub mod scalar;
