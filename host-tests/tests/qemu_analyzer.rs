@@ -529,7 +529,35 @@ fn check_case(args: &[&str], worst: &mut Worst) -> String {
         m => check_measured(&s, codes, m, Some(truth), &ctx, worst),
     }
     check_cable(&s, &report, &ctx);
+    check_simulated_truth(&s, &report, &ctx);
     report
+}
+
+/// The firmware's own (f32) simulation against the f64 model: |Γ| at the load and at the
+/// port, and the cable loss (printed to 6 and 4 decimals).
+fn check_simulated_truth(s: &Scenario, report: &str, ctx: &str) {
+    let lines = section(report, "simulated truth");
+    let g = numbers(need(&lines, "|Γ|"));
+    let at_load = feedline_host_tests::reference::bridge_sim::gamma_load(s.load, s.z0).norm();
+    close(
+        &format!("{ctx} sim |Γ| at load"),
+        g[0],
+        at_load,
+        SIM_F32_SLACK,
+    );
+    close(
+        &format!("{ctx} sim |Γ| at port"),
+        g[1],
+        s.truth().gamma,
+        SIM_F32_SLACK,
+    );
+    let loss = numbers(need(&lines, "cable loss"))[0];
+    close(
+        &format!("{ctx} sim cable loss"),
+        loss,
+        s.cable_loss_db(),
+        1e-4,
+    );
 }
 
 #[test]
