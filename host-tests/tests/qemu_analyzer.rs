@@ -238,7 +238,7 @@ fn capped_vswr(g: f64) -> f64 {
     }
 }
 
-/// Widest margin by which the truth had to use the code-error widening, for the printout.
+/// Worst agreement found, for the printout.
 #[derive(Default, Debug)]
 struct Worst {
     recompute_gamma: f64,
@@ -246,6 +246,24 @@ struct Worst {
     /// Largest (distance of the truth outside the printed range) / (widening allowed).
     widening_used: f64,
     where_: String,
+}
+
+impl std::fmt::Display for Worst {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(
+            f,
+            "worst |Γ| recomputed from codes {:.2e}, worst return loss {:.2e} dB; truth outside \
+             the printed range by at most {:.1} % of the code-error widening{}",
+            self.recompute_gamma,
+            self.recompute_rl,
+            100.0 * self.widening_used,
+            if self.where_.is_empty() {
+                String::new()
+            } else {
+                format!(" (at {})", self.where_)
+            }
+        )
+    }
 }
 
 /// The outcome of one reading as the report gives it.
@@ -578,7 +596,7 @@ fn named_scenarios_match_the_f64_model() {
             "{name} should measure"
         );
     }
-    println!("named scenarios: {worst:?}");
+    println!("named scenarios: {worst}");
 }
 
 #[test]
@@ -617,7 +635,7 @@ fn overrides_reach_the_simulation() {
     let b = run(&other).1;
     let refl = |r: &str| numbers(need(&section(r, "reading"), "codes"))[1];
     assert_ne!(refl(&a), refl(&b), "--load-r had no effect");
-    println!("overrides: {worst:?}");
+    println!("overrides: {worst}");
 }
 
 #[test]
@@ -752,5 +770,5 @@ fn random_scenarios_match_the_f64_model() {
         let args: Vec<&str> = v.iter().map(String::as_str).collect();
         check_case(&args, &mut worst);
     }
-    println!("random scenarios ({CASES}): {worst:?}");
+    println!("random scenarios ({CASES}): {worst}");
 }
