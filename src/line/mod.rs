@@ -27,7 +27,7 @@
 
 mod complex_math;
 pub mod feed_loss;
-//FIXED pub mod fixed;
+pub mod fixed;
 pub mod geometry;
 pub mod loss_fit;
 pub mod propagation;
