@@ -28,6 +28,7 @@ pub mod cable;
 pub mod calibration;
 pub mod detector;
 pub mod fixed;
+pub mod line;
 pub mod reflection;
 pub mod store;
 pub mod uncertainty;

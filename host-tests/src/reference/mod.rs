@@ -6,4 +6,5 @@
 pub mod bridge_sim;
 pub mod calibration;
 pub mod fixed_scalar;
+pub mod line;
 pub mod scalar;
