@@ -23,9 +23,14 @@
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]
 
+pub mod analysis;
 pub mod bridge;
 pub mod cable;
 pub mod detector;
+pub mod dtf;
+pub mod plot;
 pub mod reflection;
+pub mod sweep;
+pub mod touchstone;
 pub mod uncertainty;
 pub mod units;
