@@ -40,10 +40,16 @@ impl DtfResponse<'_> {
         } else {
             0.0
         };
-        // Squared compensated magnitude with the compensation by recurrence: gain² grows by
-        // r² per bin, capped at the compensation limit.
+        // Squared compensated magnitude, the gain by recurrence: with the exponent
+        // E(n) = A·n − B·n² (A = a·Δd, B = b·Δd²), gain²(n + 1) = gain²(n)·r(n) with
+        // r(n) = e^(2A − 2B(2n + 1)) and r(n + 1) = r(n)·e^(−4B); growth stops when r ≤ 1
+        // (the turning point) and at the compensation limit.
         let s2 = self.scale() * self.scale();
-        let step = libm::expf(2.0 * self.comp_np_per_m() * self.bin_spacing().value());
+        let (a, b) = self.comp_terms();
+        let dd = self.bin_spacing().value();
+        let (big_a, big_b) = (a * dd, b * dd * dd);
+        let mut ratio = libm::expf(2.0 * big_a - 2.0 * big_b);
+        let q = libm::expf(-4.0 * big_b);
         let cap = libm::powf(10.0, COMPENSATION_MAX_DB / 10.0);
         let thr_lin2 = libm::powf(10.0, -thr / 10.0);
         let mag2 = |n: usize, gain2: f32| -> f32 {
@@ -54,7 +60,11 @@ impl DtfResponse<'_> {
         let mut prev = mag2(m - 1, g_last * g_last);
         let mut cur = mag2(0, 1.0);
         for n in 0..n_read {
-            let next_gain2 = (gain2 * step).min(cap);
+            if ratio.is_nan() || ratio < 1.0 {
+                ratio = 1.0;
+            }
+            let next_gain2 = (gain2 * ratio).min(cap);
+            ratio *= q;
             let next = if n + 1 >= m {
                 mag2(0, 1.0)
             } else {

@@ -48,8 +48,10 @@ pub struct DtfResponse<'a> {
     bin_m: f32,
     resolution: f32,
     max_range: f32,
-    /// Amplitude gain exponent per metre (Np/m) of the two-way loss compensation.
-    comp_np_per_m: f32,
+    /// Linear term of the compensation exponent, Np/m (two-way mean loss).
+    comp_a: f32,
+    /// Quadratic term of the compensation exponent, Np/m² (spread of the loss over the sweep).
+    comp_b: f32,
     kind: ResponseKind,
 }
 
@@ -97,7 +99,7 @@ fn finish<'a>(
     c: &Checked,
     points: usize,
     sum_w: f32,
-    mean_alpha_db: f32,
+    alpha_moments: (f32, f32),
     kind: ResponseKind,
 ) -> Result<DtfResponse<'a>, DtfError> {
     if sum_w.is_nan() || sum_w <= 0.0 {
@@ -112,18 +114,29 @@ fn finish<'a>(
         ResponseKind::Complex => (points - 1) as f32 * resolution,
         ResponseKind::ScalarPairs => 0.5 * (points - 1) as f32 * resolution,
     };
-    // Two-way amplitude loss 2·ᾱ·d dB → Np: × ln10/20.
-    let comp = 2.0 * mean_alpha_db * core::f32::consts::LN_10 / 20.0;
+    // Two-way amplitude loss 2·α·d dB → Np: × ln10/20. The exact height of a reflection at d
+    // is Σw·e^(−a·α_k·d)/Σw; its cumulant expansion to second order is
+    // e^(−a·ᾱ·d + ½·a²·var(α)·d²), so the compensation undoes that.
+    let a = 2.0 * core::f32::consts::LN_10 / 20.0;
+    let (mean_alpha, var_alpha) = alpha_moments;
+    let comp_a = a * mean_alpha;
+    let comp_b = 0.5 * a * a * var_alpha.max(0.0);
     let out = DtfResponse {
         bins: buf,
         scale: 1.0 / sum_w,
         bin_m,
         resolution,
         max_range,
-        comp_np_per_m: comp,
+        comp_a,
+        comp_b,
         kind,
     };
-    if out.scale.is_finite() && bin_m.is_finite() && resolution.is_finite() && comp.is_finite() {
+    if out.scale.is_finite()
+        && bin_m.is_finite()
+        && resolution.is_finite()
+        && comp_a.is_finite()
+        && comp_b.is_finite()
+    {
         Ok(out)
     } else {
         Err(DtfError::NotFinite)
@@ -142,7 +155,7 @@ pub fn transform_in_place<'a, L: AttenuationModel>(
     setup: &DtfSetup<L>,
 ) -> Result<DtfResponse<'a>, DtfError> {
     let c = check(buf.len(), points, setup)?;
-    let (mut sum_w, mut sum_wa) = (0.0f32, 0.0f32);
+    let (mut sum_w, mut sum_wa, mut sum_wa2) = (0.0f32, 0.0f32, 0.0f32);
     let f0 = setup.start.value();
     for (k, x) in buf.iter_mut().enumerate() {
         if k >= points {
@@ -161,9 +174,15 @@ pub fn transform_in_place<'a, L: AttenuationModel>(
         *x = Complex32::new(x.re * w, -x.im * w);
         sum_w += w;
         sum_wa += w * alpha;
+        sum_wa2 += w * alpha * alpha;
     }
-    let mean_alpha = if sum_w > 0.0 { sum_wa / sum_w } else { 0.0 };
-    finish(buf, &c, points, sum_w, mean_alpha, ResponseKind::Complex)
+    let moments = if sum_w > 0.0 {
+        let mean = sum_wa / sum_w;
+        (mean, sum_wa2 / sum_w - mean * mean)
+    } else {
+        (0.0, 0.0)
+    };
+    finish(buf, &c, points, sum_w, moments, ResponseKind::Complex)
 }
 
 /// Pair-separation transform of a scalar (|Γ|-only) sweep, in place; see the module doc for
@@ -195,7 +214,14 @@ pub fn scalar_transform_in_place<'a, L>(
         *x = Complex32::new((g * g - mean) * w, 0.0);
         sum_w += w;
     }
-    finish(buf, &c, points, sum_w, 0.0, ResponseKind::ScalarPairs)
+    finish(
+        buf,
+        &c,
+        points,
+        sum_w,
+        (0.0, 0.0),
+        ResponseKind::ScalarPairs,
+    )
 }
 
 impl DtfResponse<'_> {
@@ -232,12 +258,27 @@ impl DtfResponse<'_> {
         Meters::new(n as f32 * self.bin_m)
     }
 
-    /// Amplitude gain that undoes the two-way cable loss at distance `d` (≥ 1, capped at
-    /// [`COMPENSATION_MAX_DB`]).
+    /// Amplitude gain that undoes the two-way cable loss at distance `d`: e^(a·d − b·d²)
+    /// (see the module doc), held at its largest value beyond its turning point, ≥ 1 and
+    /// capped at [`COMPENSATION_MAX_DB`].
     pub fn compensation(&self, d: Meters) -> f32 {
+        libm::expf(self.compensation_np(d.value()))
+    }
+
+    /// The exponent of [`DtfResponse::compensation`], Np.
+    fn compensation_np(&self, d: f32) -> f32 {
         let max_np = COMPENSATION_MAX_DB * core::f32::consts::LN_10 / 20.0;
-        let np = (self.comp_np_per_m * d.value()).clamp(0.0, max_np);
-        libm::expf(np)
+        let (a, b) = (self.comp_a, self.comp_b);
+        let e = if b > 0.0 && d > 0.5 * a / b {
+            0.25 * a * a / b
+        } else {
+            a * d - b * d * d
+        };
+        if e.is_finite() {
+            e.clamp(0.0, max_np)
+        } else {
+            0.0
+        }
     }
 
     /// |ρ| at bin `n` before loss compensation; `None` past the last bin.
@@ -276,8 +317,8 @@ impl DtfResponse<'_> {
         self.scale
     }
 
-    pub(super) fn comp_np_per_m(&self) -> f32 {
-        self.comp_np_per_m
+    pub(super) fn comp_terms(&self) -> (f32, f32) {
+        (self.comp_a, self.comp_b)
     }
 }
 
