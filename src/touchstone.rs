@@ -13,8 +13,8 @@
 //!   increasing (the specification requires ascending order).
 //!
 //! Numbers: frequency in the chosen unit with the shortest decimal that reads back to the
-//! same f32 frequency; magnitudes and real/imaginary parts with 6 decimals; dB and angles
-//! with 3 decimals. A zero magnitude in `DB` format is written as −[`DB_CEILING`] dB.
+//! same f32 frequency; magnitudes and real/imaginary parts with 6 decimals, dB with 4,
+//! angles (degrees) with 3. A zero magnitude in `DB` format is written as −[`DB_CEILING`] dB.
 //!
 //! Not supported: 2-port and larger files, version 2.0 keywords, noise data, other
 //! parameters than S.
@@ -194,7 +194,7 @@ impl<W: Write> TouchstoneWriter<W> {
                 } else {
                     -DB_CEILING
                 };
-                writeln!(self.out, " {:.3} {:.3}", db, deg + 0.0)?
+                writeln!(self.out, " {:.4} {:.3}", db, deg + 0.0)?
             }
             DataFormat::RealImaginary => {
                 writeln!(self.out, " {:.6} {:.6}", gamma.re + 0.0, gamma.im + 0.0)?

@@ -11,9 +11,11 @@
 //!   maximum range = (N − 1)·resolution = v/(2·Δf);
 //! - height is normalised by Σw, so a lone reflection reads its own |ρ|;
 //! - cable loss α(f) (dB per metre, from a closure or the coefficients k1·√f + k2·f, see
-//!   [`AttenuationModel`]) is compensated by the two-way loss 2·ᾱ·d at each distance, where ᾱ
-//!   is the window-weighted mean of α over the sweep. The mean is exact for a flat α; for
-//!   α ∝ √f over a 2:1 sweep the error is below 0.1 dB at 12 dB of two-way loss (host test
+//!   [`AttenuationModel`]) is compensated at each distance d. The exact height of a lossy
+//!   reflection is ρ·Σw_k·e^(−a·α_k·d)/Σw (a = 2·ln10/20, two-way); the compensation undoes
+//!   its second-order cumulant expansion e^(−a·ᾱ·d + ½·a²·var(α)·d²), with ᾱ and var(α) the
+//!   window-weighted mean and variance of α over the sweep, gathered while windowing. Worst
+//!   error seen on simulated lines (1–301 MHz, up to 14 dB two-way loss): 0.12 dB (host test
 //!   `dtf_lines`);
 //! - peaks are refined by three-point parabolic interpolation of the log magnitude (common
 //!   practice in spectral analysis, e.g. J. O. Smith, *Spectral Audio Signal Processing*,
