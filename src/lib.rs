@@ -23,14 +23,19 @@
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]
 
+pub mod analysis;
 pub mod bridge;
 pub mod cable;
 pub mod calibration;
 pub mod detector;
+pub mod dtf;
 pub mod fixed;
 pub mod line;
+pub mod plot;
 pub mod reflection;
 pub mod store;
+pub mod sweep;
+pub mod touchstone;
 pub mod uncertainty;
 pub mod units;
 pub mod vector;
