@@ -27,5 +27,6 @@ pub mod bridge;
 pub mod cable;
 pub mod detector;
 pub mod reflection;
+pub mod report;
 pub mod uncertainty;
 pub mod units;
