@@ -25,6 +25,7 @@
 
 pub mod bridge;
 pub mod cable;
+pub mod command;
 pub mod detector;
 pub mod reflection;
 pub mod report;
