@@ -1,0 +1,149 @@
+//! feedline's in-line monitor on QEMU's `microbit` (nRF51, Cortex-M0), run against a simulated
+//! transmitter line. The scenario and the monitor's settings come from the semihosting command
+//! line (see `scenario.rs`); reports, alarm events and protection-pin changes go out on UART0
+//! as one line each; the run ends through semihosting with success, or failure on a bad
+//! command line.
+//!
+//! Output lines (our own layout, `key=value` fields, integers; Q16.16 values are raw):
+//! ```text
+//! start scenario=NAME readings=N
+//! cfg trip_q16=.. clear_q16=.. hold=.. clear_n=.. latch=0|1 gate_uw=.. avg=.. every=..
+//! rep seq=.. fwd_uw=.. ref_uw=.. del_uw=.. tx=0|1 vswr_q16=.. rl_q16=.. pk_fwd_uw=.. pk_vswr_q16=..|- alarm=clear|tripped pin_err=..
+//! evt seq=.. trip vswr_q16=..      evt seq=.. clear      evt seq=.. reset
+//! pin seq=.. level=permit|inhibit  pinfail seq=..
+//! end seq=.. trips=.. clears=..
+//! ```
+#![no_std]
+#![no_main]
+
+mod chain;
+mod hw;
+mod pin;
+mod scenario;
+
+use core::fmt::Write;
+use cortex_m_rt::entry;
+use feedline::monitor::{AlarmEvent, AlarmState, Monitor, PinSense};
+
+use pin::SimPin;
+use scenario::Scenario;
+
+/// Averaging buffer capacity.
+const CAPACITY: usize = 32;
+
+#[entry]
+fn main() -> ! {
+    let mut uart = hw::Uart::take();
+    let mut buf = [0u8; 512];
+    let line = hw::cmdline(&mut buf);
+    let sc = match Scenario::from_args(line) {
+        Ok(s) => s,
+        Err(e) => {
+            let _ = writeln!(uart, "error args {:?}", e);
+            hw::exit(false);
+        }
+    };
+    let ok = run(&mut uart, &sc);
+    hw::exit(ok);
+}
+
+fn run(uart: &mut hw::Uart, sc: &Scenario) -> bool {
+    let c = sc.config;
+    let _ = writeln!(uart, "start scenario={} readings={}", sc.name, sc.readings);
+    let _ = writeln!(
+        uart,
+        "cfg trip_q16={} clear_q16={} hold={} clear_n={} latch={} gate_uw={} avg={} every={}",
+        c.trip_vswr_q16,
+        c.clear_vswr_q16,
+        c.hold_off,
+        c.clear_count,
+        u8::from(c.latched),
+        c.gate_uw,
+        c.averaging,
+        c.report_every
+    );
+    let pin = SimPin::new(sc.pin_fail);
+    let mut mon: Monitor<_, _, CAPACITY> =
+        match Monitor::new(c, chain::Chain, &pin, PinSense::PermitHigh) {
+            Ok(m) => m,
+            Err(e) => {
+                let _ = writeln!(uart, "error config {:?}", e);
+                return false;
+            }
+        };
+    let (mut trips, mut clears) = (0u32, 0u32);
+    for seq in 1..=sc.readings {
+        pin.set_sequence(seq);
+        let reading = sc.reading(seq, !pin.is_high());
+        let step = mon.update(reading);
+        match step.event {
+            Some(AlarmEvent::Tripped { vswr_q16 }) => {
+                trips += 1;
+                let _ = writeln!(uart, "evt seq={} trip vswr_q16={}", seq, vswr_q16);
+            }
+            Some(AlarmEvent::Cleared) => {
+                clears += 1;
+                let _ = writeln!(uart, "evt seq={} clear", seq);
+            }
+            None => {}
+        }
+        if !step.pin_ok {
+            let _ = writeln!(uart, "pinfail seq={}", seq);
+        }
+        if let Some(r) = step.report {
+            let _ = write!(
+                uart,
+                "rep seq={} fwd_uw={} ref_uw={} del_uw={} tx={} vswr_q16={} rl_q16={} pk_fwd_uw={} pk_vswr_q16=",
+                r.sequence,
+                r.forward_uw,
+                r.reflected_uw,
+                r.delivered_uw,
+                u8::from(r.transmitting),
+                r.vswr_q16,
+                r.return_loss_q16,
+                r.peak_forward_uw
+            );
+            let _ = match r.peak_vswr_q16 {
+                Some(p) => write!(uart, "{}", p),
+                None => write!(uart, "-"),
+            };
+            let _ = writeln!(
+                uart,
+                " alarm={} pin_err={}",
+                state_name(r.alarm),
+                r.pin_errors
+            );
+        }
+        if sc.reset_at == Some(seq) {
+            let (ev, _ok) = mon.reset_alarm();
+            if ev.is_some() {
+                clears += 1;
+                let _ = writeln!(uart, "evt seq={} reset", seq);
+            }
+        }
+        if pin.take_changed() {
+            let level = if pin.is_high() { "permit" } else { "inhibit" };
+            let _ = writeln!(uart, "pin seq={} level={}", seq, level);
+        }
+    }
+    let _ = writeln!(
+        uart,
+        "end seq={} trips={} clears={}",
+        sc.readings, trips, clears
+    );
+    true
+}
+
+fn state_name(s: AlarmState) -> &'static str {
+    match s {
+        AlarmState::Clear => "clear",
+        AlarmState::Tripped => "tripped",
+    }
+}
+
+#[panic_handler]
+fn panic(_: &core::panic::PanicInfo) -> ! {
+    let mut uart = hw::Uart::take();
+    let _ = writeln!(uart, "panic");
+    hw::exit(false);
+}
