@@ -1,8 +1,8 @@
 //! feedline's in-line monitor on QEMU's `microbit` (nRF51, Cortex-M0), run against a simulated
 //! transmitter line. The scenario and the monitor's settings come from the semihosting command
 //! line (see `scenario.rs`); reports, alarm events and protection-pin changes go out on UART0
-//! as one line each; the run ends through semihosting with success, or failure on a bad
-//! command line.
+//! as one line each; the run ends through semihosting with status 0, 2 for a bad command line,
+//! 1 for refused monitor settings and 101 on a panic.
 //!
 //! Output lines (our own layout, `key=value` fields, integers; Q16.16 values are raw):
 //! ```text
@@ -17,12 +17,13 @@
 #![no_main]
 
 mod chain;
-mod hw;
 mod pin;
 mod scenario;
 
 use core::fmt::Write;
 use cortex_m_rt::entry;
+use emu_support::semihost;
+use emu_support::Console;
 use feedline::monitor::{AlarmEvent, AlarmState, Monitor, PinSense};
 
 use pin::SimPin;
@@ -33,21 +34,21 @@ const CAPACITY: usize = 32;
 
 #[entry]
 fn main() -> ! {
-    let mut uart = hw::Uart::take();
+    let mut uart = Console::new();
     let mut buf = [0u8; 512];
-    let line = hw::cmdline(&mut buf);
+    let line = semihost::cmdline(&mut buf).unwrap_or("");
     let sc = match Scenario::from_args(line) {
         Ok(s) => s,
         Err(e) => {
             let _ = writeln!(uart, "error args {:?}", e);
-            hw::exit(false);
+            semihost::exit(2);
         }
     };
     let ok = run(&mut uart, &sc);
-    hw::exit(ok);
+    semihost::exit(if ok { 0 } else { 1 });
 }
 
-fn run(uart: &mut hw::Uart, sc: &Scenario) -> bool {
+fn run(uart: &mut Console, sc: &Scenario) -> bool {
     let c = sc.config;
     let _ = writeln!(uart, "start scenario={} readings={}", sc.name, sc.readings);
     let _ = writeln!(
@@ -143,7 +144,7 @@ fn state_name(s: AlarmState) -> &'static str {
 
 #[panic_handler]
 fn panic(_: &core::panic::PanicInfo) -> ! {
-    let mut uart = hw::Uart::take();
+    let mut uart = Console::new();
     let _ = writeln!(uart, "panic");
-    hw::exit(false);
+    semihost::exit(101);
 }

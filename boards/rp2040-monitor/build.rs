@@ -1,4 +1,4 @@
-//! Puts this board's memory.x on the linker search path.
+//! Puts this board's memory.x on the linker search path and adds defmt's linker script.
 use std::{env, fs, path::PathBuf};
 
 fn main() {
@@ -7,4 +7,5 @@ fn main() {
     println!("cargo:rustc-link-search={}", out.display());
     println!("cargo:rerun-if-changed=memory.x");
     println!("cargo:rerun-if-changed=build.rs");
+    println!("cargo:rustc-link-arg-bins=-Tdefmt.x");
 }
