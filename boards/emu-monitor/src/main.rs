@@ -75,6 +75,7 @@ fn run(uart: &mut Console, sc: &Scenario) -> bool {
     let (mut trips, mut clears) = (0u32, 0u32);
     for seq in 1..=sc.readings {
         pin.set_sequence(seq);
+        let level_before = pin.is_high();
         let reading = sc.reading(seq, !pin.is_high());
         let step = mon.update(reading);
         match step.event {
@@ -116,13 +117,16 @@ fn run(uart: &mut Console, sc: &Scenario) -> bool {
             );
         }
         if sc.reset_at == Some(seq) {
-            let (ev, _ok) = mon.reset_alarm();
+            let (ev, pin_ok) = mon.reset_alarm();
             if ev.is_some() {
                 clears += 1;
                 let _ = writeln!(uart, "evt seq={} reset", seq);
             }
+            if !pin_ok {
+                let _ = writeln!(uart, "pinfail seq={}", seq);
+            }
         }
-        if pin.take_changed() {
+        if pin.is_high() != level_before {
             let level = if pin.is_high() { "permit" } else { "inhibit" };
             let _ = writeln!(uart, "pin seq={} level={}", seq, level);
         }

@@ -1,14 +1,13 @@
 //! A simulated protection pin: remembers its level, can be told to fail writes for a range of
-//! readings, and reports level changes.
+//! readings.
 
 use core::cell::Cell;
 use embedded_hal::digital::{ErrorKind, ErrorType, OutputPin};
 
 /// The simulated pin. Starts low: with the default "permit high" sense, an undriven pin
-/// inhibits the transmitter.
+/// inhibits the transmitter. The firmware prints a line when the level changes.
 pub struct SimPin {
     high: Cell<bool>,
-    changed: Cell<bool>,
     seq: Cell<u32>,
     fail: Option<(u32, u32)>,
 }
@@ -18,7 +17,6 @@ impl SimPin {
     pub fn new(fail: Option<(u32, u32)>) -> Self {
         SimPin {
             high: Cell::new(false),
-            changed: Cell::new(false),
             seq: Cell::new(0),
             fail,
         }
@@ -34,11 +32,6 @@ impl SimPin {
         self.high.get()
     }
 
-    /// True once after each change of level.
-    pub fn take_changed(&self) -> bool {
-        self.changed.replace(false)
-    }
-
     fn set(&self, high: bool) -> Result<(), ErrorKind> {
         let s = self.seq.get();
         if let Some((a, b)) = self.fail {
@@ -46,10 +39,7 @@ impl SimPin {
                 return Err(ErrorKind::Other);
             }
         }
-        if self.high.get() != high {
-            self.high.set(high);
-            self.changed.set(true);
-        }
+        self.high.set(high);
         Ok(())
     }
 }

@@ -2,10 +2,10 @@
 //! semihosting command line.
 //!
 //! Reading `s` (1-based) of a scenario:
-//! - forward power = the last `--power AT:MW` step with AT ≤ s (0 before the first), times 1000
+//! - forward power = the last-listed `--power AT:MW` step with AT ≤ s (0 before the first), times 1000
 //!   µW/mW; 0 while unkeyed (`--key ON:OFF`: keyed for the first ON of every ON+OFF readings)
 //!   and, with `--feedback`, 0 while the protection pin is at "inhibit" (it starts there);
-//! - |Γ|² (ppm) = the last `--refl AT:PPM` step with AT ≤ s (0 before the first), raised to at
+//! - |Γ|² (ppm) = the last-listed `--refl AT:PPM` step with AT ≤ s (0 before the first), raised to at
 //!   least the spike level during spikes (`--spike START:EVERY:LEN:PPM`: from START, the first
 //!   LEN of every EVERY readings);
 //! - reflected power = ⌊forward · ppm / 10⁶⌋ µW.
@@ -242,8 +242,7 @@ fn last_step(steps: &[(u32, u32)], n: usize, seq: u32) -> u32 {
     steps
         .iter()
         .take(n)
-        .filter(|(at, _)| *at <= seq)
-        .last()
+        .rfind(|(at, _)| *at <= seq)
         .map_or(0, |(_, v)| *v)
 }
 
