@@ -26,6 +26,7 @@
 pub mod bridge;
 pub mod cable;
 pub mod detector;
+pub mod fixed;
 pub mod monitor;
 pub mod reflection;
 pub mod uncertainty;
