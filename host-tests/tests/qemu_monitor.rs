@@ -15,10 +15,11 @@ use std::process::{Command, Stdio};
 use std::sync::OnceLock;
 use std::time::{Duration, Instant};
 
-/// Largest relative VSWR error allowed, chain against the f64 model.
-const VSWR_REL_TOL: f64 = 2e-3;
-/// Largest return-loss error allowed in a report, dB.
-const RL_TOL_DB: f64 = 0.02;
+/// Largest relative VSWR error allowed, chain against the f64 model: the fixed chain's
+/// stated bound.
+const VSWR_REL_TOL: f64 = feedline::fixed::VSWR_BOUND_REL as f64;
+/// Largest return-loss error allowed in a report, dB: the fixed chain's stated bound.
+const RL_TOL_DB: f64 = feedline::fixed::RL_BOUND_DB as f64;
 /// Averaged powers are floored to whole µW.
 const POWER_TOL_UW: f64 = 1.0;
 /// A scenario's VSWRs must stay this far (relative) from the thresholds for its alarm timing

@@ -2,6 +2,7 @@
 //! latched. Pure state machine; the protection output lives in [`super::Protection`].
 
 use super::config::MonitorConfig;
+use crate::fixed::VswrQ16;
 
 /// Whether the alarm is raised.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
@@ -18,10 +19,10 @@ pub enum AlarmState {
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub enum AlarmEvent {
-    /// The alarm tripped; the VSWR (Q16.16) of the reading that completed the hold-off.
+    /// The alarm tripped.
     Tripped {
-        /// VSWR of the tripping reading, Q16.16.
-        vswr_q16: u32,
+        /// VSWR of the reading that completed the hold-off.
+        vswr: VswrQ16,
     },
     /// The alarm cleared (by itself, or by a reset of a latched alarm).
     Cleared,
@@ -52,16 +53,16 @@ impl SwrAlarm {
     }
 
     /// Feeds one reading: `active` is false for an idle reading (forward power below the
-    /// gate), `vswr_q16` its VSWR. Returns the change of state, if any.
+    /// gate), `vswr` its VSWR. Returns the change of state, if any.
     pub fn update(
         &mut self,
         config: &MonitorConfig,
         active: bool,
-        vswr_q16: u32,
+        vswr: VswrQ16,
     ) -> Option<AlarmEvent> {
         match self.state {
             AlarmState::Clear => {
-                if active && vswr_q16 > config.trip_vswr_q16 {
+                if active && vswr > config.trip_vswr {
                     self.above = self.above.saturating_add(1);
                 } else {
                     self.above = 0;
@@ -70,7 +71,7 @@ impl SwrAlarm {
                     self.state = AlarmState::Tripped;
                     self.above = 0;
                     self.below = 0;
-                    return Some(AlarmEvent::Tripped { vswr_q16 });
+                    return Some(AlarmEvent::Tripped { vswr });
                 }
                 None
             }
@@ -78,7 +79,7 @@ impl SwrAlarm {
                 if config.latched {
                     return None;
                 }
-                if !active || vswr_q16 < config.clear_vswr_q16 {
+                if !active || vswr < config.clear_vswr {
                     self.below = self.below.saturating_add(1);
                 } else {
                     self.below = 0;
@@ -108,11 +109,10 @@ impl SwrAlarm {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::monitor::math::Q16_ONE;
 
-    const HIGH: u32 = 3 * Q16_ONE;
-    const MID: u32 = 18 * Q16_ONE / 10;
-    const LOW: u32 = Q16_ONE + Q16_ONE / 10;
+    const HIGH: VswrQ16 = VswrQ16::from_bits(3 << 16);
+    const MID: VswrQ16 = VswrQ16::from_bits(117_965); // 1.8
+    const LOW: VswrQ16 = VswrQ16::from_bits(72_090); // 1.1
 
     fn cfg(latched: bool) -> MonitorConfig {
         MonitorConfig {
@@ -124,7 +124,7 @@ mod tests {
     }
 
     /// Feeds (active, vswr) pairs and returns the index of each event.
-    fn run(c: &MonitorConfig, input: &[(bool, u32)]) -> ([Option<AlarmEvent>; 16], AlarmState) {
+    fn run(c: &MonitorConfig, input: &[(bool, VswrQ16)]) -> ([Option<AlarmEvent>; 16], AlarmState) {
         let mut a = SwrAlarm::new();
         let mut out = [None; 16];
         for (slot, &(act, v)) in out.iter_mut().zip(input) {
@@ -147,14 +147,14 @@ mod tests {
         ];
         let (ev, st) = run(&c, &input);
         assert_eq!(ev[..5], [None; 5]);
-        assert_eq!(ev[5], Some(AlarmEvent::Tripped { vswr_q16: HIGH }));
+        assert_eq!(ev[5], Some(AlarmEvent::Tripped { vswr: HIGH }));
         assert_eq!(st, AlarmState::Tripped);
     }
 
     #[test]
     fn exactly_at_trip_threshold_does_not_count() {
         let c = cfg(false);
-        let t = c.trip_vswr_q16;
+        let t = c.trip_vswr;
         let (ev, st) = run(&c, &[(true, t); 8]);
         assert_eq!(ev, [None; 16]);
         assert_eq!(st, AlarmState::Clear);
@@ -170,11 +170,11 @@ mod tests {
             (true, HIGH),
             (true, HIGH),
             (true, HIGH),
-            (false, 0),
-            (false, 0),
+            (false, VswrQ16::ONE),
+            (false, VswrQ16::ONE),
         ];
         let (ev, st) = run(&c, &input);
-        assert_eq!(ev[5], Some(AlarmEvent::Tripped { vswr_q16: HIGH }));
+        assert_eq!(ev[5], Some(AlarmEvent::Tripped { vswr: HIGH }));
         assert_eq!(ev[7], Some(AlarmEvent::Cleared));
         assert_eq!(ev.iter().filter(|e| e.is_some()).count(), 2);
         assert_eq!(st, AlarmState::Clear);
@@ -189,7 +189,7 @@ mod tests {
         input[1] = (true, HIGH);
         input[2] = (true, HIGH);
         let (ev, st) = run(&c, &input);
-        assert_eq!(ev[2], Some(AlarmEvent::Tripped { vswr_q16: HIGH }));
+        assert_eq!(ev[2], Some(AlarmEvent::Tripped { vswr: HIGH }));
         assert_eq!(ev.iter().filter(|e| e.is_some()).count(), 1);
         assert_eq!(st, AlarmState::Tripped);
         // a below reading interrupted by one in the band restarts the clear count

@@ -1,12 +1,12 @@
 //! Monitor settings and their validation.
 
-use super::math::Q16_ONE;
+use crate::fixed::VswrQ16;
 
 /// Why a [`MonitorConfig`] was refused.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub enum ConfigError {
-    /// The clear threshold is below VSWR 1 or not below the trip threshold (no hysteresis).
+    /// The clear threshold is not below the trip threshold (no hysteresis).
     Thresholds,
     /// `hold_off` or `clear_count` is 0.
     ZeroCount,
@@ -18,11 +18,11 @@ pub enum ConfigError {
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct MonitorConfig {
-    /// VSWR (Q16.16) that a reading must be strictly above to count towards a trip.
-    pub trip_vswr_q16: u32,
-    /// VSWR (Q16.16) that a reading must be strictly below to count towards clearing;
-    /// must be at least 1.0 and below `trip_vswr_q16`.
-    pub clear_vswr_q16: u32,
+    /// VSWR that a reading must be strictly above to count towards a trip.
+    pub trip_vswr: VswrQ16,
+    /// VSWR that a reading must be strictly below to count towards clearing; must be below
+    /// `trip_vswr`.
+    pub clear_vswr: VswrQ16,
     /// Consecutive readings above the trip threshold needed to trip (≥ 1).
     pub hold_off: u16,
     /// Consecutive readings below the clear threshold needed to clear (≥ 1).
@@ -42,8 +42,8 @@ impl MonitorConfig {
     /// after 10, not latched, gate 100 mW, average of 8, a report every 50 readings.
     /// (Common practice for amateur and broadcast transmitters; tune for your line.)
     pub const DEFAULT: MonitorConfig = MonitorConfig {
-        trip_vswr_q16: 2 * Q16_ONE,
-        clear_vswr_q16: Q16_ONE + (Q16_ONE * 7) / 10,
+        trip_vswr: VswrQ16::from_bits(2 << 16),
+        clear_vswr: VswrQ16::from_bits(111_411), // 1.7 (1.7 · 65536 = 111 411.2)
         hold_off: 3,
         clear_count: 10,
         latched: false,
@@ -54,7 +54,7 @@ impl MonitorConfig {
 
     /// Checks the settings for a monitor whose buffer holds `capacity` readings.
     pub fn validate(&self, capacity: usize) -> Result<(), ConfigError> {
-        if self.clear_vswr_q16 < Q16_ONE || self.clear_vswr_q16 >= self.trip_vswr_q16 {
+        if self.clear_vswr >= self.trip_vswr {
             return Err(ConfigError::Thresholds);
         }
         if self.hold_off == 0 || self.clear_count == 0 {
@@ -92,14 +92,15 @@ mod tests {
         let cases = [
             (
                 MonitorConfig {
-                    clear_vswr_q16: d.trip_vswr_q16,
+                    clear_vswr: d.trip_vswr,
                     ..d
                 },
                 ConfigError::Thresholds,
             ),
             (
                 MonitorConfig {
-                    clear_vswr_q16: Q16_ONE - 1,
+                    trip_vswr: VswrQ16::ONE,
+                    clear_vswr: VswrQ16::ONE,
                     ..d
                 },
                 ConfigError::Thresholds,

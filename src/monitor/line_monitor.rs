@@ -8,6 +8,7 @@ use super::average::Averager;
 use super::config::{ConfigError, MonitorConfig};
 use super::math::{LineMath, PowerReading};
 use super::protection::{PinSense, Protection};
+use crate::fixed::{DbQ16, VswrQ16};
 
 /// A periodic report: the averaged line and the peaks since the previous report.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -23,15 +24,15 @@ pub struct Report {
     pub delivered_uw: u32,
     /// False when the averaged forward power is below the gate: VSWR and RL then mean little.
     pub transmitting: bool,
-    /// VSWR of the averaged powers, Q16.16.
-    pub vswr_q16: u32,
-    /// Return loss of the averaged powers, dB Q16.16.
-    pub return_loss_q16: u32,
+    /// VSWR of the averaged powers.
+    pub vswr: VswrQ16,
+    /// Return loss of the averaged powers.
+    pub return_loss: DbQ16,
     /// Highest single-reading forward power since the previous report, µW.
     pub peak_forward_uw: u32,
-    /// Highest single-reading VSWR of an active reading since the previous report (Q16.16),
-    /// or `None` if every reading was idle.
-    pub peak_vswr_q16: Option<u32>,
+    /// Highest single-reading VSWR of an active reading since the previous report, or `None`
+    /// if every reading was idle.
+    pub peak_vswr: Option<VswrQ16>,
     /// The alarm state after this reading.
     pub alarm: AlarmState,
     /// Failed protection-pin writes so far.
@@ -64,7 +65,7 @@ pub struct Monitor<M, P, const N: usize> {
     sequence: u32,
     since_report: u16,
     peak_forward_uw: u32,
-    peak_vswr_q16: Option<u32>,
+    peak_vswr: Option<VswrQ16>,
 }
 
 impl<M: LineMath, P: OutputPin, const N: usize> Monitor<M, P, N> {
@@ -85,7 +86,7 @@ impl<M: LineMath, P: OutputPin, const N: usize> Monitor<M, P, N> {
             sequence: 0,
             since_report: 0,
             peak_forward_uw: 0,
-            peak_vswr_q16: None,
+            peak_vswr: None,
         })
     }
 
@@ -110,14 +111,14 @@ impl<M: LineMath, P: OutputPin, const N: usize> Monitor<M, P, N> {
         self.sequence = self.sequence.saturating_add(1);
         let active = reading.forward_uw >= self.config.gate_uw;
         let figures = self.math.figures(reading);
-        let event = self.alarm.update(&self.config, active, figures.vswr_q16);
+        let event = self.alarm.update(&self.config, active, figures.vswr);
         let pin_ok = self.protection.drive(self.alarm.state());
 
         self.average.push(reading);
         self.peak_forward_uw = self.peak_forward_uw.max(reading.forward_uw);
         if active {
-            let v = figures.vswr_q16;
-            self.peak_vswr_q16 = Some(self.peak_vswr_q16.map_or(v, |p| p.max(v)));
+            let v = figures.vswr;
+            self.peak_vswr = Some(self.peak_vswr.map_or(v, |p| p.max(v)));
         }
 
         let mut report = None;
@@ -127,7 +128,7 @@ impl<M: LineMath, P: OutputPin, const N: usize> Monitor<M, P, N> {
                 report = Some(self.report_now());
                 self.since_report = 0;
                 self.peak_forward_uw = 0;
-                self.peak_vswr_q16 = None;
+                self.peak_vswr = None;
             }
         }
         Step {
@@ -148,10 +149,10 @@ impl<M: LineMath, P: OutputPin, const N: usize> Monitor<M, P, N> {
             reflected_uw: mean.reflected_uw,
             delivered_uw: mean.delivered_uw(),
             transmitting: mean.forward_uw >= self.config.gate_uw,
-            vswr_q16: figures.vswr_q16,
-            return_loss_q16: figures.return_loss_q16,
+            vswr: figures.vswr,
+            return_loss: figures.return_loss,
             peak_forward_uw: self.peak_forward_uw,
-            peak_vswr_q16: self.peak_vswr_q16,
+            peak_vswr: self.peak_vswr,
             alarm: self.alarm.state(),
             pin_errors: self.protection.error_count(),
         }
@@ -175,36 +176,9 @@ impl<M: LineMath, P: OutputPin, const N: usize> Monitor<M, P, N> {
 mod tests {
     extern crate std;
     use super::*;
-    use crate::monitor::math::{LineFigures, Q16_ONE};
+    use crate::monitor::PowerChain;
     use core::cell::Cell;
     use embedded_hal::digital::{ErrorKind, ErrorType};
-
-    /// A test chain in f64 (std), standing in for the fixed-point one.
-    struct F64Chain;
-    impl LineMath for F64Chain {
-        fn figures(&self, r: PowerReading) -> LineFigures {
-            if r.reflected_uw >= r.forward_uw {
-                return LineFigures {
-                    vswr_q16: 1000 * Q16_ONE,
-                    return_loss_q16: 0,
-                };
-            }
-            if r.reflected_uw == 0 {
-                return LineFigures {
-                    vswr_q16: Q16_ONE,
-                    return_loss_q16: 100 * Q16_ONE,
-                };
-            }
-            let ratio = f64::from(r.reflected_uw) / f64::from(r.forward_uw);
-            let g = std::primitive::f64::sqrt(ratio);
-            let v = ((1.0 + g) / (1.0 - g)).min(1000.0);
-            let rl = (-10.0 * std::primitive::f64::log10(ratio)).min(100.0);
-            LineFigures {
-                vswr_q16: (v * 65536.0) as u32,
-                return_loss_q16: (rl * 65536.0) as u32,
-            }
-        }
-    }
 
     /// A pin that remembers its level and can be told to fail.
     #[derive(Default)]
@@ -237,6 +211,7 @@ mod tests {
     }
 
     const W: u32 = 1_000_000; // 1 W in µW
+    const TWO: VswrQ16 = VswrQ16::from_bits(2 << 16);
     /// 100 W forward with |Γ|² = 1/9 (|Γ| = 1/3, VSWR 2.0 exactly) would sit on the threshold;
     /// |Γ|² = 0.25 gives VSWR 3.0 and |Γ|² = 0.01 gives VSWR 1.222.
     const BAD: PowerReading = PowerReading::new(100 * W, 25 * W);
@@ -256,7 +231,7 @@ mod tests {
     fn trips_drives_pin_and_clears() {
         let pin = Pin::default();
         let mut m: Monitor<_, _, 8> =
-            Monitor::new(config(), F64Chain, &pin, PinSense::PermitHigh).unwrap();
+            Monitor::new(config(), PowerChain, &pin, PinSense::PermitHigh).unwrap();
         assert_eq!(
             pin.high.get(),
             None,
@@ -275,7 +250,7 @@ mod tests {
         }
         assert_eq!(events.len(), 2);
         assert_eq!(events[0].0, 5);
-        assert!(matches!(events[0].1, AlarmEvent::Tripped { vswr_q16 } if vswr_q16 > 2 * Q16_ONE));
+        assert!(matches!(events[0].1, AlarmEvent::Tripped { vswr } if vswr > TWO));
         assert_eq!(events[1], (10, AlarmEvent::Cleared));
         assert_eq!(pin.writes.get(), 11, "pin driven on every reading");
     }
@@ -284,7 +259,7 @@ mod tests {
     fn reports_every_k_with_average_and_peaks() {
         let pin = Pin::default();
         let mut m: Monitor<_, _, 8> =
-            Monitor::new(config(), F64Chain, &pin, PinSense::PermitLow).unwrap();
+            Monitor::new(config(), PowerChain, &pin, PinSense::PermitLow).unwrap();
         let mut reports = std::vec::Vec::new();
         let seq = [GOOD, GOOD, GOOD, BAD, GOOD, GOOD, GOOD, GOOD, GOOD, GOOD];
         for r in seq {
@@ -301,13 +276,14 @@ mod tests {
         assert_eq!(a.delivered_uw, 100 * W - 7 * W);
         assert!(a.transmitting);
         assert_eq!(a.peak_forward_uw, 100 * W);
-        assert_eq!(a.peak_vswr_q16, Some(3 * Q16_ONE));
+        let pk = a.peak_vswr.unwrap().to_bits();
+        assert!(pk.abs_diff(3 << 16) < 200, "peak VSWR {pk} ≈ 3 (0.1 %)");
         assert_eq!(a.alarm, AlarmState::Clear);
         // second interval has no BAD reading: the peak was reset
         let b = reports[1];
         assert_eq!(b.sequence, 10);
         assert_eq!(b.reflected_uw, W);
-        assert!(b.peak_vswr_q16.unwrap() < 2 * Q16_ONE);
+        assert!(b.peak_vswr.unwrap() < TWO);
         // PermitLow: clear alarm drives the pin low
         assert_eq!(pin.high.get(), Some(false));
     }
@@ -316,7 +292,7 @@ mod tests {
     fn pin_failure_is_reported_and_alarm_kept() {
         let pin = Pin::default();
         let mut m: Monitor<_, _, 8> =
-            Monitor::new(config(), F64Chain, &pin, PinSense::PermitHigh).unwrap();
+            Monitor::new(config(), PowerChain, &pin, PinSense::PermitHigh).unwrap();
         pin.fail.set(true);
         let mut last = None;
         for _ in 0..3 {
@@ -345,7 +321,7 @@ mod tests {
             ..config()
         };
         let mut m: Monitor<_, _, 8> =
-            Monitor::new(c, F64Chain, &pin, PinSense::PermitHigh).unwrap();
+            Monitor::new(c, PowerChain, &pin, PinSense::PermitHigh).unwrap();
         // below the gate a terrible VSWR never trips
         for _ in 0..10 {
             assert_eq!(m.update(PowerReading::new(1000, 999)).event, None);
@@ -370,7 +346,8 @@ mod tests {
             averaging: 9,
             ..config()
         };
-        let r: Result<Monitor<_, _, 8>, _> = Monitor::new(c, F64Chain, &pin, PinSense::PermitHigh);
+        let r: Result<Monitor<_, _, 8>, _> =
+            Monitor::new(c, PowerChain, &pin, PinSense::PermitHigh);
         assert_eq!(r.err(), Some(ConfigError::Averaging));
     }
 }

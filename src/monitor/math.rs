@@ -1,8 +1,7 @@
 //! The reading a monitor takes, and the small trait through which it gets VSWR and return loss
 //! from a pair of powers.
 
-/// 1.0 in Q16.16 fixed point.
-pub const Q16_ONE: u32 = 1 << 16;
+use crate::fixed::{DbQ16, VswrQ16};
 
 /// One reading of the line: forward and reflected power in integer microwatts.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
@@ -29,14 +28,14 @@ impl PowerReading {
     }
 }
 
-/// VSWR and return loss of a reading, both Q16.16.
+/// VSWR and return loss of a reading, both Q16.16 ([`crate::fixed`] formats).
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct LineFigures {
-    /// VSWR, Q16.16, in `Q16_ONE..=1000·Q16_ONE`.
-    pub vswr_q16: u32,
-    /// Return loss in dB, Q16.16, in `0..=100·Q16_ONE` (positive: larger is a better match).
-    pub return_loss_q16: u32,
+    /// VSWR, 1 to 1000.
+    pub vswr: VswrQ16,
+    /// Return loss, 0 to 100 dB (positive: larger is a better match).
+    pub return_loss: DbQ16,
 }
 
 /// A fixed-point chain that turns forward and reflected power into VSWR and return loss.

@@ -3,7 +3,7 @@
 //!
 //! What it computes, once per reading of forward and reflected power (integer microwatts):
 //! delivered power (forward − reflected), VSWR and return loss (Q16.16 fixed point, through a
-//! [`LineMath`] chain), a boxcar average over the last `averaging` readings, peak hold over each
+//! [`LineMath`] chain; [`PowerChain`] builds it on [`crate::fixed`]'s log2/exp2), a boxcar average over the last `averaging` readings, peak hold over each
 //! report interval, an SWR alarm with hold-off and hysteresis, a transmitter-protection output
 //! through an embedded-hal 1.0 [`OutputPin`](embedded_hal::digital::OutputPin), and a report
 //! every `report_every` readings.
@@ -29,11 +29,13 @@ mod average;
 mod config;
 mod line_monitor;
 mod math;
+mod power_chain;
 mod protection;
 
 pub use alarm::{AlarmEvent, AlarmState, SwrAlarm};
 pub use average::Averager;
 pub use config::{ConfigError, MonitorConfig};
 pub use line_monitor::{Monitor, Report, Step};
-pub use math::{LineFigures, LineMath, PowerReading, Q16_ONE};
+pub use math::{LineFigures, LineMath, PowerReading};
+pub use power_chain::PowerChain;
 pub use protection::{PinSense, Protection};

@@ -16,7 +16,6 @@
 #![no_std]
 #![no_main]
 
-mod chain;
 mod pin;
 mod scenario;
 
@@ -24,7 +23,7 @@ use core::fmt::Write;
 use cortex_m_rt::entry;
 use emu_support::semihost;
 use emu_support::Console;
-use feedline::monitor::{AlarmEvent, AlarmState, Monitor, PinSense};
+use feedline::monitor::{AlarmEvent, AlarmState, Monitor, PinSense, PowerChain};
 
 use pin::SimPin;
 use scenario::Scenario;
@@ -54,8 +53,8 @@ fn run(uart: &mut Console, sc: &Scenario) -> bool {
     let _ = writeln!(
         uart,
         "cfg trip_q16={} clear_q16={} hold={} clear_n={} latch={} gate_uw={} avg={} every={}",
-        c.trip_vswr_q16,
-        c.clear_vswr_q16,
+        c.trip_vswr.to_bits(),
+        c.clear_vswr.to_bits(),
         c.hold_off,
         c.clear_count,
         u8::from(c.latched),
@@ -65,7 +64,7 @@ fn run(uart: &mut Console, sc: &Scenario) -> bool {
     );
     let pin = SimPin::new(sc.pin_fail);
     let mut mon: Monitor<_, _, CAPACITY> =
-        match Monitor::new(c, chain::Chain, &pin, PinSense::PermitHigh) {
+        match Monitor::new(c, PowerChain, &pin, PinSense::PermitHigh) {
             Ok(m) => m,
             Err(e) => {
                 let _ = writeln!(uart, "error config {:?}", e);
@@ -79,9 +78,9 @@ fn run(uart: &mut Console, sc: &Scenario) -> bool {
         let reading = sc.reading(seq, !pin.is_high());
         let step = mon.update(reading);
         match step.event {
-            Some(AlarmEvent::Tripped { vswr_q16 }) => {
+            Some(AlarmEvent::Tripped { vswr }) => {
                 trips += 1;
-                let _ = writeln!(uart, "evt seq={} trip vswr_q16={}", seq, vswr_q16);
+                let _ = writeln!(uart, "evt seq={} trip vswr_q16={}", seq, vswr.to_bits());
             }
             Some(AlarmEvent::Cleared) => {
                 clears += 1;
@@ -101,12 +100,12 @@ fn run(uart: &mut Console, sc: &Scenario) -> bool {
                 r.reflected_uw,
                 r.delivered_uw,
                 u8::from(r.transmitting),
-                r.vswr_q16,
-                r.return_loss_q16,
+                r.vswr.to_bits(),
+                r.return_loss.to_bits(),
                 r.peak_forward_uw
             );
-            let _ = match r.peak_vswr_q16 {
-                Some(p) => write!(uart, "{}", p),
+            let _ = match r.peak_vswr {
+                Some(p) => write!(uart, "{}", p.to_bits()),
                 None => write!(uart, "-"),
             };
             let _ = writeln!(

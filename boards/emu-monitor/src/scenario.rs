@@ -12,7 +12,8 @@
 //!
 //! All scenarios here are invented for the demo.
 
-use feedline::monitor::{MonitorConfig, PowerReading, Q16_ONE};
+use feedline::fixed::VswrQ16;
+use feedline::monitor::{MonitorConfig, PowerReading};
 
 /// Most steps of each kind a scenario holds.
 pub const MAX_STEPS: usize = 8;
@@ -72,8 +73,8 @@ pub struct Scenario {
 
 fn base_config() -> MonitorConfig {
     MonitorConfig {
-        trip_vswr_q16: 2 * Q16_ONE,
-        clear_vswr_q16: Q16_ONE + Q16_ONE / 2,
+        trip_vswr: VswrQ16::from_bits(2 << 16),
+        clear_vswr: VswrQ16::from_bits(3 << 15),
         hold_off: 3,
         clear_count: 5,
         latched: false,
@@ -201,8 +202,8 @@ impl Scenario {
                 "--feedback" => s.feedback = true,
                 "--pin-fail" => s.pin_fail = Some(pair(val()?)?),
                 "--reset-at" => s.reset_at = Some(num(val()?)?),
-                "--trip" => s.config.trip_vswr_q16 = q16(val()?)?,
-                "--clear" => s.config.clear_vswr_q16 = q16(val()?)?,
+                "--trip" => s.config.trip_vswr = VswrQ16::from_bits(q16(val()?)?),
+                "--clear" => s.config.clear_vswr = VswrQ16::from_bits(q16(val()?)?),
                 "--hold" => s.config.hold_off = small(val()?)?,
                 "--clear-n" => s.config.clear_count = small(val()?)?,
                 "--latch" => s.config.latched = true,
@@ -276,5 +277,5 @@ fn q16(s: &str) -> Result<u32, ArgError> {
         f = f * 10 + d;
         scale *= 10;
     }
-    Ok(i * Q16_ONE + f * Q16_ONE / scale)
+    Ok((i << 16) + (f << 16) / scale)
 }
