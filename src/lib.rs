@@ -32,6 +32,7 @@ pub mod detector;
 pub mod dtf;
 pub mod fixed;
 pub mod line;
+pub mod monitor;
 pub mod plot;
 pub mod reflection;
 pub mod report;
