@@ -1,0 +1,111 @@
+//! The measured operations. Each takes and returns four 32-bit words (integers or f32 bit
+//! patterns) so that one runner, one trace parser and one output format serve them all.
+//!
+//! The host tool knows each op by its `name` and holds its f64 reference and target.
+
+/// One measured operation.
+pub struct Op {
+    /// Short id, no spaces; the host tool's table is keyed on it.
+    pub name: &'static str,
+    /// The operation. `#[inline(never)]` so its stack frame is its own.
+    pub run: fn([u32; 4]) -> [u32; 4],
+    /// Input of the timed run and the stack measurement.
+    pub nominal: [u32; 4],
+    /// Accuracy sweep: input number `k`, or `None` past the end.
+    pub sweep: fn(u32) -> Option<[u32; 4]>,
+    /// Part of the `--quick` smoke run.
+    pub quick: bool,
+}
+
+/// Every operation, in run order. The first, `empty`, measures the call overhead the host
+/// subtracts from the others.
+pub const OPS: &[Op] = &[
+    Op {
+        name: "empty",
+        run: empty,
+        nominal: [0; 4],
+        sweep: no_sweep,
+        quick: true,
+    },
+    Op {
+        name: "naive-libm",
+        run: naive_libm,
+        nominal: CHAIN_NOMINAL,
+        sweep: chain_sweep,
+        quick: true,
+    },
+    Op {
+        name: "naive-micromath",
+        run: naive_micromath,
+        nominal: CHAIN_NOMINAL,
+        sweep: chain_sweep,
+        quick: true,
+    },
+    Op {
+        name: "core-gamma-reflection",
+        run: core_gamma_reflection,
+        nominal: CHAIN_NOMINAL,
+        sweep: chain_sweep,
+        quick: false,
+    },
+];
+
+fn no_sweep(_k: u32) -> Option<[u32; 4]> {
+    None
+}
+
+#[inline(never)]
+fn empty(x: [u32; 4]) -> [u32; 4] {
+    x
+}
+
+// ---- scalar chain: two 16-bit linear-detector codes (forward, reflected) → VSWR, RL, ML ----
+
+/// Forward code 50 000, reflected 5 000: |Γ| = 0.1, a return loss of exactly 20 dB.
+pub const CHAIN_NOMINAL: [u32; 4] = [50_000, 5_000, 0, 0];
+
+/// Forward code 50 000; reflected codes 300 + 700·k: |Γ| from 0.006 to 0.888 (return loss
+/// from 44 dB down to 1 dB), 64 points.
+fn chain_sweep(k: u32) -> Option<[u32; 4]> {
+    (k < 64).then(|| [50_000, 300 + 700 * k, 0, 0])
+}
+
+/// What a firmware author writes first: f32 and libm's `log10f`.
+#[inline(never)]
+pub fn naive_libm(x: [u32; 4]) -> [u32; 4] {
+    let fwd = x[0] as u16 as f32;
+    let refl = x[1] as u16 as f32;
+    let g = refl / fwd;
+    let vswr = (1.0 + g) / (1.0 - g);
+    let rl = -20.0 * libm::log10f(g);
+    let ml = -10.0 * libm::log10f(1.0 - g * g);
+    [vswr.to_bits(), rl.to_bits(), ml.to_bits(), 0]
+}
+
+/// The same with micromath 2.1's fast approximate `log10`.
+#[inline(never)]
+pub fn naive_micromath(x: [u32; 4]) -> [u32; 4] {
+    use micromath::F32Ext;
+    let fwd = x[0] as u16 as f32;
+    let refl = x[1] as u16 as f32;
+    let g = refl / fwd;
+    let vswr = (1.0 + g) / (1.0 - g);
+    let rl = -20.0 * g.log10();
+    let ml = -10.0 * (1.0 - g * g).log10();
+    [vswr.to_bits(), rl.to_bits(), ml.to_bits(), 0]
+}
+
+/// The core's f32 scalar relations (src/reflection.rs): ratio of the codes → `Gamma` →
+/// `Reflection` (VSWR, return loss, mismatch loss, capped flag).
+#[inline(never)]
+pub fn core_gamma_reflection(x: [u32; 4]) -> [u32; 4] {
+    let fwd = x[0] as u16 as f32;
+    let refl = x[1] as u16 as f32;
+    let r = feedline::reflection::Gamma::saturating(refl / fwd).reflection();
+    [
+        r.vswr.value().to_bits(),
+        r.return_loss.value().to_bits(),
+        r.mismatch_loss.value().to_bits(),
+        u32::from(r.capped),
+    ]
+}
