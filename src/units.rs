@@ -15,6 +15,7 @@
 //! | [`Ohms`] | resistance or reactance | |
 //! | [`Meters`] | length | |
 //! | [`Watts`] | power | |
+//! | [`Volts`] | detector output, ADC reference | |
 //! | [`Dbm`] | absolute power, dB relative to 1 mW | `Dbm - Dbm = Db`, `Dbm + Db = Dbm` |
 //!
 //! Panic policy: nothing in this module panics.
@@ -22,7 +23,7 @@
 use core::ops::{Add, Mul, Neg, Sub};
 
 /// Decibels per neper: 20·log10(e) (common practice: 8.686 dB per Np).
-pub const DB_PER_NP: f32 = 8.685_889_6;
+pub const DB_PER_NP: f32 = 8.685_889;
 
 macro_rules! scalar_unit {
     ($(#[$doc:meta])* $name:ident, $unit:literal) => {
@@ -124,6 +125,11 @@ scalar_unit!(
     /// A power in watts.
     Watts,
     "W"
+);
+scalar_unit!(
+    /// An electric potential in volts (detector outputs, ADC reference).
+    Volts,
+    "V"
 );
 
 /// An absolute power level in dB relative to one milliwatt.

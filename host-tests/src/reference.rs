@@ -1,1 +1,0 @@
-//! The independent f64 reference model (being written).
