@@ -25,11 +25,12 @@ mod board;
 pub use board::*;
 
 /// Defines `main` of a footprint firmware: the bare board (UART, exit) plus one computation
-/// `$f: fn([u32; 4]) -> [u32; 4]` on an input the optimizer cannot see, its result printed.
-/// Its flash and RAM minus those of `size-base` are the computation's footprint.
+/// `$f: fn(&Ctx, [u32; 4]) -> [u32; 4]` with its context `$ctx: Ctx` on an input the
+/// optimizer cannot see, its result printed. Its flash and RAM minus those of `size-base` are
+/// the computation's footprint.
 #[macro_export]
 macro_rules! size_firmware {
-    ($f:expr) => {
+    ($ctx:expr, $f:expr) => {
         #[cfg(not(target_os = "none"))]
         fn main() {}
 
@@ -38,8 +39,8 @@ macro_rules! size_firmware {
         fn main() -> ! {
             $crate::uart_init();
             let input: [u32; 4] = core::hint::black_box([50_000, 5_000, 0, 0]);
-            let f: fn([u32; 4]) -> [u32; 4] = $f;
-            for w in f(input) {
+            let ctx = $ctx;
+            for w in ($f)(&ctx, input) {
                 $crate::write_hex(w);
             }
             $crate::exit(true)

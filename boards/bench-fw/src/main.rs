@@ -20,7 +20,7 @@ mod ops;
 
 #[cfg(target_os = "none")]
 mod fw {
-    use crate::ops::{Op, OPS};
+    use crate::ops::{Ctx, Op, OPS};
     use bench_fw::*;
     use core::hint::black_box;
 
@@ -28,11 +28,11 @@ mod fw {
         line.split(|&b| b == b' ').any(|w| w == word)
     }
 
-    fn time(op: &Op) {
+    fn time(ctx: &Ctx, op: &Op) {
         let f = black_box(op.run);
         let input = black_box(op.nominal);
         bench_start();
-        let out = black_box(f(black_box(input)));
+        let out = black_box(f(ctx, black_box(input)));
         bench_stop();
         write_str("T ");
         write_str(op.name);
@@ -43,11 +43,11 @@ mod fw {
         write_str("\n");
     }
 
-    fn sweep(op: &Op) {
+    fn sweep(ctx: &Ctx, op: &Op) {
         let f = black_box(op.run);
         let input = black_box(op.nominal);
         let top = paint_stack();
-        let out = black_box(f(black_box(input)));
+        let out = black_box(f(ctx, black_box(input)));
         let low = stack_low_water();
         black_box(out);
         write_str("K ");
@@ -57,7 +57,7 @@ mod fw {
         write_str("\n");
         let mut k = 0;
         while let Some(input) = (op.sweep)(k) {
-            let out = f(black_box(input));
+            let out = f(ctx, black_box(input));
             write_str("S ");
             write_str(op.name);
             for w in input.iter().chain(out.iter()) {
@@ -76,11 +76,16 @@ mod fw {
         let cmd = cmdline(&mut buf);
         let quick = has_word(cmd, b"quick");
         let mode_sweep = has_word(cmd, b"sweep");
+        let Some(ctx) = Ctx::new() else {
+            write_str("bad benchmark configuration\n");
+            exit(false)
+        };
+        let ctx = black_box(&ctx);
         for op in OPS.iter().filter(|op| op.quick || !quick) {
             if mode_sweep {
-                sweep(op);
+                sweep(ctx, op);
             } else {
-                time(op);
+                time(ctx, op);
             }
         }
         write_str("DONE\n");

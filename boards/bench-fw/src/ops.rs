@@ -3,12 +3,41 @@
 //!
 //! The host tool knows each op by its `name` and holds its f64 reference and target.
 
+use core::hint::black_box;
+use feedline::bridge::{BridgeSpec, Detector, ScalarChain};
+use feedline::detector::Adc;
+use feedline::units::{Db, Volts};
+
+/// Configuration every op may use, built once before the measurements from inputs the
+/// optimizer cannot see (a firmware builds these once at start-up too).
+pub struct Ctx {
+    /// 16-bit ADC, 3.3 V reference; linear detectors, 1 mV floor, 3.2 V ceiling, 40 dB
+    /// directivity.
+    pub chain: ScalarChain,
+}
+
+impl Ctx {
+    /// The benchmark configuration.
+    pub fn new() -> Option<Ctx> {
+        let adc = Adc::new(black_box(16), Volts::new(black_box(3.3)), black_box(0)).ok()?;
+        let spec = BridgeSpec::new(
+            Detector::Linear,
+            Volts::new(black_box(0.001)),
+            Volts::new(black_box(3.2)),
+            Db::new(black_box(40.0)),
+        );
+        Some(Ctx {
+            chain: ScalarChain::new(adc, spec),
+        })
+    }
+}
+
 /// One measured operation.
 pub struct Op {
     /// Short id, no spaces; the host tool's table is keyed on it.
     pub name: &'static str,
     /// The operation. `#[inline(never)]` so its stack frame is its own.
-    pub run: fn([u32; 4]) -> [u32; 4],
+    pub run: fn(&Ctx, [u32; 4]) -> [u32; 4],
     /// Input of the timed run and the stack measurement.
     pub nominal: [u32; 4],
     /// Accuracy sweep: input number `k`, or `None` past the end.
@@ -22,28 +51,35 @@ pub struct Op {
 pub const OPS: &[Op] = &[
     Op {
         name: "empty",
-        run: empty,
+        run: empty::<Ctx>,
         nominal: [0; 4],
         sweep: no_sweep,
         quick: true,
     },
     Op {
         name: "naive-libm",
-        run: naive_libm,
+        run: naive_libm::<Ctx>,
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: true,
     },
     Op {
         name: "naive-micromath",
-        run: naive_micromath,
+        run: naive_micromath::<Ctx>,
+        nominal: CHAIN_NOMINAL,
+        sweep: chain_sweep,
+        quick: true,
+    },
+    Op {
+        name: "chain-f32",
+        run: chain_f32,
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: true,
     },
     Op {
         name: "core-gamma-reflection",
-        run: core_gamma_reflection,
+        run: core_gamma_reflection::<Ctx>,
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: false,
@@ -55,7 +91,7 @@ fn no_sweep(_k: u32) -> Option<[u32; 4]> {
 }
 
 #[inline(never)]
-fn empty(x: [u32; 4]) -> [u32; 4] {
+fn empty<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
     x
 }
 
@@ -72,7 +108,7 @@ fn chain_sweep(k: u32) -> Option<[u32; 4]> {
 
 /// What a firmware author writes first: f32 and libm's `log10f`.
 #[inline(never)]
-pub fn naive_libm(x: [u32; 4]) -> [u32; 4] {
+pub fn naive_libm<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
     let fwd = x[0] as u16 as f32;
     let refl = x[1] as u16 as f32;
     let g = refl / fwd;
@@ -84,7 +120,7 @@ pub fn naive_libm(x: [u32; 4]) -> [u32; 4] {
 
 /// The same with micromath 2.1's fast approximate `log10`.
 #[inline(never)]
-pub fn naive_micromath(x: [u32; 4]) -> [u32; 4] {
+pub fn naive_micromath<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
     use micromath::F32Ext;
     let fwd = x[0] as u16 as f32;
     let refl = x[1] as u16 as f32;
@@ -98,7 +134,7 @@ pub fn naive_micromath(x: [u32; 4]) -> [u32; 4] {
 /// The core's f32 scalar relations (src/reflection.rs): ratio of the codes → `Gamma` →
 /// `Reflection` (VSWR, return loss, mismatch loss, capped flag).
 #[inline(never)]
-pub fn core_gamma_reflection(x: [u32; 4]) -> [u32; 4] {
+pub fn core_gamma_reflection<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
     let fwd = x[0] as u16 as f32;
     let refl = x[1] as u16 as f32;
     let r = feedline::reflection::Gamma::saturating(refl / fwd).reflection();
@@ -108,4 +144,23 @@ pub fn core_gamma_reflection(x: [u32; 4]) -> [u32; 4] {
         r.mismatch_loss.value().to_bits(),
         u32::from(r.capped),
     ]
+}
+
+/// f32 NaN: marks an output word of a refused reading.
+const REFUSED: u32 = 0x7FC0_0000;
+
+/// The core's scalar chain (src/bridge.rs): two ADC codes → volts → return loss → |Γ|, VSWR,
+/// mismatch loss, directivity bounds and the quality verdict. Out: VSWR, RL, ML (f32 bits)
+/// and the quality flags (low byte) or the fault (`0x100 + discriminant`).
+#[inline(never)]
+pub fn chain_f32(ctx: &Ctx, x: [u32; 4]) -> [u32; 4] {
+    match ctx.chain.measure_codes(x[0] as u16, x[1] as u16) {
+        Ok(m) => [
+            m.reflection.vswr.value().to_bits(),
+            m.reflection.return_loss.value().to_bits(),
+            m.reflection.mismatch_loss.value().to_bits(),
+            u32::from(m.quality.bits()),
+        ],
+        Err(e) => [REFUSED, REFUSED, REFUSED, 0x100 + e as u32],
+    }
 }

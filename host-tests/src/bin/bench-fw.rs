@@ -209,6 +209,10 @@ const SIZE_BINS: &[(&str, &str)] = &[
     ),
     ("size-naive-micromath", "naive f32 + micromath chain"),
     (
+        "size-core-chain-f32",
+        "core f32 scalar chain (codes → measurement with bounds and verdict)",
+    ),
+    (
         "size-core-reflection",
         "core f32 reflection relations (Gamma → Reflection)",
     ),
@@ -574,6 +578,12 @@ fn trace_pc(line: &[u8]) -> Option<u32> {
 // Measurement of one core
 // ---------------------------------------------------------------------------------------------
 
+/// One sweep point: (inputs, outputs).
+type Point = ([u32; 4], [u32; 4]);
+
+/// Per core (M0, M4F): (flash, RAM) bytes, or why there is no figure.
+type Sizes = [Result<(u32, u32), String>; 2];
+
 #[derive(Default)]
 struct CoreResult {
     /// Instructions per op (call overhead already subtracted).
@@ -583,7 +593,7 @@ struct CoreResult {
     /// Stack bytes per op.
     stack: BTreeMap<String, u32>,
     /// Sweep points per op: (inputs, outputs).
-    sweeps: BTreeMap<String, Vec<([u32; 4], [u32; 4])>>,
+    sweeps: BTreeMap<String, Vec<Point>>,
 }
 
 fn hex_words(words: &[&str]) -> Option<[u32; 4]> {
@@ -676,7 +686,7 @@ fn measure(
 // ---------------------------------------------------------------------------------------------
 
 /// Worst absolute errors of the scalar chain: (RL dB, where: true RL; ML dB; VSWR relative).
-fn scalar_chain_error(points: &[([u32; 4], [u32; 4])]) -> Option<(f64, f64, f64, f64)> {
+fn scalar_chain_error(points: &[Point]) -> Option<(f64, f64, f64, f64)> {
     let mut worst = (0.0f64, 0.0f64, 0.0f64, 0.0f64);
     for (i, o) in points {
         let fwd = f64::from(i[0] as u16);
@@ -759,7 +769,7 @@ fn sci(x: f64) -> String {
 struct Footprint {
     label: String,
     /// Per core: Ok((flash, ram)) or why there is no figure.
-    sizes: [Result<(u32, u32), String>; 2],
+    sizes: Sizes,
 }
 
 /// Board firmware packages under boards/: (directory, package name).
@@ -995,9 +1005,8 @@ fn main() -> ExitCode {
     let mut results = Vec::new();
     let mut footprints: Vec<Footprint> = Vec::new();
     let mut base = [(0u32, 0u32); 2];
-    let mut bench_sizes: [Result<(u32, u32), String>; 2] =
-        [Err("—".to_string()), Err("—".to_string())];
-    let mut bin_sizes: BTreeMap<&str, [Result<(u32, u32), String>; 2]> = BTreeMap::new();
+    let mut bench_sizes: Sizes = [Err("—".to_string()), Err("—".to_string())];
+    let mut bin_sizes: BTreeMap<&str, Sizes> = BTreeMap::new();
     for (ci, core) in Core::ALL.into_iter().enumerate() {
         eprintln!(
             "bench-fw: building and running on {} ({})",
@@ -1051,8 +1060,7 @@ fn main() -> ExitCode {
                 continue;
             }
             eprintln!("bench-fw: building board firmware boards/{dir}");
-            let mut sizes: [Result<(u32, u32), String>; 2] =
-                [Err("—".to_string()), Err("—".to_string())];
+            let mut sizes: Sizes = [Err("—".to_string()), Err("—".to_string())];
             for (ci, core) in Core::ALL.into_iter().enumerate() {
                 sizes[ci] = match build(&package, core, &target_dir) {
                     Err(e) => Err(first_error_line(&e)),

@@ -4,4 +4,4 @@
 #[cfg(target_os = "none")]
 use bench_fw as _;
 
-bench_fw::size_firmware!(|x| x);
+bench_fw::size_firmware!((), |_: &(), x: [u32; 4]| x);

@@ -6,4 +6,4 @@
 #[allow(dead_code)]
 mod ops;
 
-bench_fw::size_firmware!(ops::core_gamma_reflection);
+bench_fw::size_firmware!((), ops::core_gamma_reflection::<()>);

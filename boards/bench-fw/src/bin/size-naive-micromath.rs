@@ -6,4 +6,4 @@
 #[allow(dead_code)]
 mod ops;
 
-bench_fw::size_firmware!(ops::naive_micromath);
+bench_fw::size_firmware!((), ops::naive_micromath::<()>);
