@@ -317,6 +317,16 @@ fn ensure_qemu() -> (u32, u32) {
 /// Builds a package in release for a core; returns the executables it produced, or the
 /// compiler's error text.
 fn build(package: &str, core: Core, target_dir: &Path) -> Result<Vec<PathBuf>, String> {
+    build_with(package, core, target_dir, &[])
+}
+
+/// [`build`] with extra cargo arguments.
+fn build_with(
+    package: &str,
+    core: Core,
+    target_dir: &Path,
+    extra: &[&str],
+) -> Result<Vec<PathBuf>, String> {
     let out = Command::new(cargo())
         .current_dir(root())
         .args([
@@ -330,6 +340,7 @@ fn build(package: &str, core: Core, target_dir: &Path) -> Result<Vec<PathBuf>, S
         .arg("--target-dir")
         .arg(target_dir)
         .args(["--message-format", "json-render-diagnostics"])
+        .args(extra)
         .stderr(Stdio::piped())
         .output()
         .map_err(|e| format!("cannot run cargo: {e}"))?;
@@ -959,15 +970,29 @@ fn panic_proof() -> ExitCode {
     ensure_targets();
     let dir = root().join("target").join("proof");
     let mut ok = true;
-    for core in Core::ALL {
-        match build("panic-proof", core, &dir) {
-            Ok(_) => println!(
-                "panic-proof {}: links, no panic path reachable",
-                core.triple()
-            ),
-            Err(e) => {
-                ok = false;
-                println!("panic-proof {}: FAILED\n{e}", core.triple());
+    // As shipped, then with overflow checks on in feedline (any unchecked arithmetic that can
+    // overflow then fails the link too).
+    let variants: [(&str, &[&str]); 2] = [
+        ("release", &[]),
+        (
+            "release + feedline overflow checks",
+            &[
+                "--config",
+                "profile.release.package.feedline.overflow-checks=true",
+            ],
+        ),
+    ];
+    for (what, extra) in variants {
+        for core in Core::ALL {
+            match build_with("panic-proof", core, &dir, extra) {
+                Ok(_) => println!(
+                    "panic-proof {} ({what}): links, no panic path reachable",
+                    core.triple()
+                ),
+                Err(e) => {
+                    ok = false;
+                    println!("panic-proof {} ({what}): FAILED\n{e}", core.triple());
+                }
             }
         }
     }
@@ -1107,4 +1132,90 @@ fn main() -> ExitCode {
         eprintln!("bench-fw: wrote {}", path.display());
     }
     ExitCode::SUCCESS
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A trace line as QEMU 7.2 writes it with `-d exec,nochain`.
+    const LINE: &[u8] =
+        b"Trace 0: 0x7f4c80000240 [00800400/00000a2e/00000510/ff000201] __pre_init\n";
+
+    #[test]
+    fn reads_the_pc_of_a_trace_line() {
+        assert_eq!(trace_pc(LINE), Some(0x0a2e));
+        assert_eq!(trace_pc(b"Linking TBs 0x1 [00000a2e] index 0\n"), None);
+        assert_eq!(trace_pc(b"Trace 0: garbage\n"), None);
+    }
+
+    #[test]
+    fn counts_between_markers() {
+        let dir = root().join("target").join("bench-fw-test");
+        fs::create_dir_all(&dir).unwrap();
+        let path = dir.join("segments.log");
+        // start at 0x100, stop at 0x200; two segments of 3 and 1 instructions, noise around.
+        let pcs = [0x10, 0x100, 0x104, 0x106, 0x200, 0x202, 0x100, 0x200, 0x10];
+        let text: String = pcs
+            .iter()
+            .map(|pc| format!("Trace 0: 0x7f00 [00800400/{pc:08x}/00000510/ff000201] f\n"))
+            .collect();
+        fs::write(&path, text).unwrap();
+        let counts = count_segments(&path, 0x100, 0x200).unwrap();
+        fs::remove_file(&path).unwrap();
+        assert_eq!(counts, vec![3, 1]);
+    }
+
+    #[test]
+    fn reads_executables_from_cargo_json() {
+        let line = r#"{"reason":"compiler-artifact","executable":"/t/a\\b\"c","fresh":true}"#;
+        assert_eq!(
+            json_string_field(line, "executable").as_deref(),
+            Some("/t/a\\b\"c")
+        );
+        assert_eq!(
+            json_string_field(r#"{"executable":null}"#, "executable"),
+            None
+        );
+    }
+
+    #[test]
+    fn scalar_chain_error_is_zero_for_the_f64_values_rounded() {
+        // fwd 50 000, refl 5 000: |Γ| = 0.1, VSWR 11/9, RL 20 dB, ML −10·log10(0.99).
+        let ml = -10.0 * 0.99f64.log10();
+        let out = [(11.0f64 / 9.0) as f32, 20.0f32, ml as f32, 0.0].map(f32::to_bits);
+        let (rl_err, at, ml_err, v_err) =
+            scalar_chain_error(&[([50_000, 5_000, 0, 0], out)]).unwrap();
+        assert_eq!(rl_err, 0.0);
+        assert_eq!(at, 0.0, "no worse point than zero error was recorded");
+        assert!(ml_err < 1e-8 && v_err < 1e-7);
+        // A non-finite output is reported, not hidden.
+        let nan = [f32::NAN.to_bits(); 4];
+        assert!(scalar_chain_error(&[([50_000, 5_000, 0, 0], nan)]).is_none());
+    }
+
+    #[test]
+    fn met_says_by_how_much() {
+        let row = &ROWS.iter().find(|r| r.id == "chain-f32").unwrap();
+        assert_eq!(met_text(row, None, Some(80)), "yes (M4F)");
+        assert_eq!(met_text(row, None, Some(160)), "no (M4F: +80, 2.0×)");
+    }
+
+    #[test]
+    fn date_is_iso() {
+        let d = today();
+        assert_eq!(d.len(), 10);
+        assert!(d.starts_with("20") && d.as_bytes()[4] == b'-' && d.as_bytes()[7] == b'-');
+    }
+
+    #[test]
+    fn parses_a_built_firmware_when_present() {
+        // Only when `cargo bench-fw` has built the firmware before; the ELF reader is then
+        // checked on a real file: markers exist and differ, sections add up.
+        let p = root().join("target/bench-fw/thumbv6m-none-eabi/release/bench-fw");
+        let Ok(elf) = Elf::read(&p) else { return };
+        let (a, b) = (elf.function("bench_start"), elf.function("bench_stop"));
+        assert!(a.is_some() && b.is_some() && a != b);
+        assert!(elf.flash() > elf.section_size(".text"));
+    }
 }
