@@ -78,6 +78,27 @@ pub const OPS: &[Op] = &[
         quick: true,
     },
     Op {
+        name: "libm-log10f",
+        run: libm_log10f::<Ctx>,
+        nominal: [0x3DCC_CCCD, 0, 0, 0], // 0.1
+        sweep: no_sweep,
+        quick: false,
+    },
+    Op {
+        name: "core-gamma-from-rl",
+        run: core_gamma_from_rl::<Ctx>,
+        nominal: [0x41A0_0000, 0, 0, 0], // 20.0 dB
+        sweep: no_sweep,
+        quick: false,
+    },
+    Op {
+        name: "core-directivity-bounds",
+        run: core_directivity_bounds::<Ctx>,
+        nominal: [0x3DCC_CCCD, 0x4220_0000, 0, 0], // |Γ| 0.1, 40 dB
+        sweep: no_sweep,
+        quick: false,
+    },
+    Op {
         name: "core-gamma-reflection",
         run: core_gamma_reflection::<Ctx>,
         nominal: CHAIN_NOMINAL,
@@ -163,4 +184,31 @@ pub fn chain_f32(ctx: &Ctx, x: [u32; 4]) -> [u32; 4] {
         ],
         Err(e) => [REFUSED, REFUSED, REFUSED, 0x100 + e as u32],
     }
+}
+
+/// One libm `log10f` (the unit of cost of the f32 chains). In: x (f32 bits).
+#[inline(never)]
+pub fn libm_log10f<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    [libm::log10f(f32::from_bits(x[0])).to_bits(), 0, 0, 0]
+}
+
+/// `Gamma::from_return_loss` (one `powf`). In: RL dB (f32 bits). Out: |Γ|.
+#[inline(never)]
+pub fn core_gamma_from_rl<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    let g = feedline::reflection::Gamma::from_return_loss(Db::new(f32::from_bits(x[0])));
+    [g.map_or(REFUSED, |g| g.value().to_bits()), 0, 0, 0]
+}
+
+/// `uncertainty::directivity_bounds`. In: |Γ|, directivity dB (f32 bits). Out: RL low, RL
+/// high, VSWR low, VSWR high.
+#[inline(never)]
+pub fn core_directivity_bounds<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    let g = feedline::reflection::Gamma::saturating(f32::from_bits(x[0]));
+    let b = feedline::uncertainty::directivity_bounds(g, Db::new(f32::from_bits(x[1])));
+    [
+        b.return_loss_low.value().to_bits(),
+        b.return_loss_high.value().to_bits(),
+        b.vswr_low.value().to_bits(),
+        b.vswr_high.value().to_bits(),
+    ]
 }

@@ -127,6 +127,27 @@ const ROWS: &[Row] = &[
         miss_note: "",
     },
     Row {
+        id: "libm-log10f",
+        label: "↳ part of the chain: one libm log10f",
+        metric: Metric::None,
+        target: NO_TARGET,
+        miss_note: "",
+    },
+    Row {
+        id: "core-gamma-from-rl",
+        label: "↳ part of the chain: Gamma::from_return_loss (one powf)",
+        metric: Metric::None,
+        target: NO_TARGET,
+        miss_note: "",
+    },
+    Row {
+        id: "core-directivity-bounds",
+        label: "↳ part of the chain: uncertainty::directivity_bounds",
+        metric: Metric::None,
+        target: NO_TARGET,
+        miss_note: "",
+    },
+    Row {
         id: "chain-f32",
         label: "core scalar chain with quality verdict (f32)",
         metric: Metric::ScalarChain,
