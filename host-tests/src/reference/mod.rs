@@ -6,4 +6,9 @@
 pub mod bridge_sim;
 pub mod calibration;
 pub mod fixed_scalar;
+pub mod line;
+pub mod line_faults;
+pub mod monitor;
 pub mod scalar;
+pub mod series_rlc;
+pub mod touchstone_spec;
