@@ -12,5 +12,7 @@ pub static BOOT2_FIRMWARE: [u8; 256] = rp2040_boot2::BOOT_LOADER_W25Q080;
 fn main() -> ! {
     let _p = hal::pac::Peripherals::take();
     defmt::info!("hi");
-    loop {}
+    loop {
+        cortex_m::asm::wfi();
+    }
 }

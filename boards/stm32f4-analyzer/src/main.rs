@@ -9,5 +9,7 @@ use stm32f4xx_hal as hal;
 fn main() -> ! {
     let _p = hal::pac::Peripherals::take();
     defmt::info!("hi");
-    loop {}
+    loop {
+        cortex_m::asm::wfi();
+    }
 }
