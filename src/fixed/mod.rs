@@ -64,4 +64,4 @@ pub const VSWR_BOUND_REL: f32 = 0.001;
 /// Stated bound on the mismatch-loss error of every chain, in dB.
 pub const ML_BOUND_DB: f32 = 0.005;
 /// Stated bound on the absolute |Γ| error of every chain.
-pub const GAMMA_BOUND: f32 = 3.0e-5;
+pub const GAMMA_BOUND: f32 = 1.0e-4;

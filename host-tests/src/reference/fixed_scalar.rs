@@ -67,7 +67,12 @@ pub fn db_difference(d_db: f64) -> Scalars {
 
 /// The input power of a logarithmic detector read by an ADC: V = code · step,
 /// P = V / slope + intercept (the detector's straight-line law V = slope · (P − intercept)).
-pub fn log_detector_dbm(code: u16, adc_nv_per_code: u32, slope_uv_per_db: i32, intercept_dbm: f64) -> f64 {
+pub fn log_detector_dbm(
+    code: u16,
+    adc_nv_per_code: u32,
+    slope_uv_per_db: i32,
+    intercept_dbm: f64,
+) -> f64 {
     let volts = f64::from(code) * f64::from(adc_nv_per_code) * 1e-9;
     volts / (f64::from(slope_uv_per_db) * 1e-6) + intercept_dbm
 }
@@ -86,7 +91,11 @@ mod tests {
     /// ML 0.043648 dB; |Γ| = 0.5 → VSWR 3, RL 6.0206 dB, ML 1.249387 dB.
     #[test]
     fn textbook_values() {
-        for s in [linear_codes(10_000, 1_000), square_law_codes(10_000, 100), db_difference(20.0)] {
+        for s in [
+            linear_codes(10_000, 1_000),
+            square_law_codes(10_000, 100),
+            db_difference(20.0),
+        ] {
             assert!((s.gamma - 0.1).abs() < 1e-12);
             assert!((s.vswr - 11.0 / 9.0).abs() < 1e-12);
             assert!((s.return_loss_db - 20.0).abs() < 1e-12);
