@@ -28,6 +28,17 @@ const MIN_MARGIN: f64 = 5e-3;
 /// Wall-clock limit for one QEMU run.
 const RUN_TIMEOUT: Duration = Duration::from_secs(30);
 
+/// The chain's VSWR error is within bounds: the fixed chain's relative bound up to VSWR 20,
+/// and, above, the |Γ| that the VSWR implies within `feedline::monitor::GAMMA_BOUND`.
+fn vswr_within_bound(got: f64, want: f64) -> bool {
+    if want <= 20.0 {
+        ((got - want) / want).abs() <= VSWR_REL_TOL
+    } else {
+        let g = |v: f64| (v - 1.0) / (v + 1.0);
+        (g(got) - g(want)).abs() <= f64::from(feedline::monitor::GAMMA_BOUND)
+    }
+}
+
 fn workspace() -> PathBuf {
     Path::new(env!("CARGO_MANIFEST_DIR"))
         .parent()
@@ -205,7 +216,11 @@ fn check_report(got: &[(String, String)], want: &Report, worst: &mut (f64, f64))
     let erl = (rl - want.return_loss_db).abs().min((rl - rl_floor).abs());
     worst.0 = worst.0.max(ev);
     worst.1 = worst.1.max(erl);
-    assert!(ev <= VSWR_REL_TOL, "vswr {v} vs {}: {ctx}", want.vswr);
+    assert!(
+        vswr_within_bound(v, want.vswr) || vswr_within_bound(v, v_floor),
+        "vswr {v} vs {}: {ctx}",
+        want.vswr
+    );
     assert!(
         erl <= RL_TOL_DB,
         "rl {rl} vs {}: {ctx}",
@@ -222,7 +237,7 @@ fn check_report(got: &[(String, String)], want: &Report, worst: &mut (f64, f64))
             let g = s.parse::<f64>().expect("peak vswr") / Q16;
             let e = ((g - pv) / pv).abs();
             worst.0 = worst.0.max(e);
-            assert!(e <= VSWR_REL_TOL, "peak vswr {g} vs {pv}: {ctx}");
+            assert!(vswr_within_bound(g, pv), "peak vswr {g} vs {pv}: {ctx}");
         }
         (s, None) => panic!("peak vswr {s} where the model has none: {ctx}"),
     }
@@ -262,7 +277,7 @@ fn check(name: &str, s: &Scenario) -> Run {
             let g = *g as f64 / Q16;
             let err = ((g - v) / v).abs();
             worst.0 = worst.0.max(err);
-            assert!(err <= VSWR_REL_TOL, "{name}: trip VSWR {g} vs {v}");
+            assert!(vswr_within_bound(g, *v), "{name}: trip VSWR {g} vs {v}");
         }
     }
     assert_eq!(p.pins, model.pins, "{name}: protection pin changes");
