@@ -231,7 +231,9 @@ mod proof {
     }
 
     /// A stand-in chain: the monitor's own state machine is proven here apart from
-    /// `PowerChain`, whose integer log2/exp2 live in `fixed` (proven by its own calls).
+    /// `PowerChain`. `PowerChain` links in the release proof, but with overflow checks on, the
+    /// plain additions in `fixed::log2` / `fixed::exp2` still leave overflow panic paths; add
+    /// `keep(PowerChain.figures(reading))` here once those use wrapping arithmetic.
     struct ProofChain;
     impl feedline::monitor::LineMath for ProofChain {
         fn figures(&self, r: feedline::monitor::PowerReading) -> feedline::monitor::LineFigures {
