@@ -157,6 +157,8 @@ pub struct Report {
     pub tripped: bool,
     /// Failed pin writes so far.
     pub pin_errors: u32,
+    /// The protection pin is at inhibit when the report is made.
+    pub inhibited: bool,
 }
 
 /// Everything a run produces.
@@ -321,6 +323,7 @@ pub fn simulate(s: &Scenario) -> Run {
                     peak_vswr,
                     tripped,
                     pin_errors,
+                    inhibited: !permit,
                 });
                 since = 0;
                 peak_fwd = 0.0;
