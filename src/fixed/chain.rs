@@ -3,12 +3,13 @@
 //!
 //! | chain | reading | |Γ| from | method |
 //! |---|---|---|---|
-//! | [`LinearChain`] | ADC code ∝ amplitude | r/f | RL = 20·log10 2 · (log2 f − log2 r); VSWR = 2^(log2(f+r) − log2(f−r)); ML = 10·log10 2 · (2·log2 f − log2(f+r) − log2(f−r)) |
+//! | [`LinearChain`] | ADC code ∝ amplitude | r/f | RL = 20·log10 2 · (log2 f − log2 r); VSWR = 2^(2·log2(f+r) − log2(f²−r²)); ML = 10·log10 2 · (2·log2 f − log2(f²−r²)) |
 //! | [`SquareLawChain`] | ADC code ∝ power | √(r/f) | RL = 10·log10 2 · (log2 f − log2 r); ML = 10·log10 2 · (log2 f − log2(f−r)); VSWR = (1+\|Γ\|)²·f/(f−r) |
-//! | [`DbmChain`] | power in dBm, Q16.16 | 10^(−d/20), d = Pf − Pr | RL = d; VSWR and ML from log2(1 ± \|Γ\|) |
+//! | [`DbmChain`] | power in dBm, Q16.16 | 10^(−d/20), d = Pf − Pr | RL = d; VSWR from log2(1 ± \|Γ\|), ML from log2(1 − \|Γ\|²) |
 //! | [`LogDetectorChain`] | ADC code of a log detector, V = slope·(P − intercept) | as [`DbmChain`] | d from the code difference |
 //!
-//! For the code laws every logarithm is taken of an exact integer (f, r, f ± r), so the
+//! For the code laws every logarithm is taken of an exact integer (f, r, f + r, f − r,
+//! f² − r²), so the
 //! ill-conditioned 1 − |Γ| near a total reflection is exact. For the dB laws, 1 − |Γ| with
 //! |Γ| near 1 (d < 2.17 dB, y = d·ln 10/20 < 0.25) uses the series
 //! ln(1 − e^(−y)) = ln y − y/2 + y²/24 − y⁴/2880 + … (from ln((1 − e^(−y))/y) =
@@ -33,7 +34,8 @@ use super::exp2::{exp2_neg_q31, exp2_q16};
 use super::log2::{log2_q24, ONE_Q24};
 use super::q::{DbQ16, DbmQ16, GammaQ31, DB_CEILING_Q16, GAMMA_ONE_Q31};
 use super::relations::{
-    db10_from_log2, db20_from_log2, vswr_from_log2, FixedReflection, K_DB_TO_LOG2,
+    db10_from_log2, db20_from_log2, neg_log2_one_minus_gamma_squared, vswr_from_log2,
+    FixedReflection, K_DB_TO_LOG2,
 };
 use super::wide::{mul_hi, mul_shr};
 
@@ -341,16 +343,19 @@ impl LinearChain {
 /// 0 < r < f < 2^16.
 #[inline]
 fn linear_core(f: u32, r: u32) -> FixedReflection {
-    let lf = log2_q24(f); // all four in 0..17 · 2^24: no overflow below
+    // f² − r² = (f − r)(f + r) = (1 − |Γ|²) · f² is exact in u32 (f² < 2^32) and falls as r
+    // rises, so mismatch loss and VSWR come out monotonic in r.
+    let lf = log2_q24(f); // all in 0..33 · 2^24: no overflow below
     let lr = log2_q24(r);
     let lp = log2_q24(f + r);
-    let lm = log2_q24(f - r);
+    let ld = log2_q24((f - r) * (f + r));
     let d = lf.wrapping_sub(lr); // −log2|Γ| ≥ 0 (log2_q24 is monotonic)
     let (return_loss, c1) = db20_from_log2(d);
     let gamma = GammaQ31::from_bits(exp2_neg_q31(d.max(0) as u32));
-    let (vswr, c2) = vswr_from_log2(lp.wrapping_sub(lm));
-    let ml_log = lf.wrapping_add(lf).wrapping_sub(lp).wrapping_sub(lm);
-    let (mismatch_loss, c3) = db10_from_log2(ml_log);
+    // log2 VSWR = log2((f + r)² / (f² − r²)).
+    let (vswr, c2) = vswr_from_log2(lp.wrapping_add(lp).wrapping_sub(ld));
+    // −log2(1 − |Γ|²) = log2 f² − log2(f² − r²).
+    let (mismatch_loss, c3) = db10_from_log2(lf.wrapping_add(lf).wrapping_sub(ld));
     FixedReflection {
         gamma,
         vswr,
@@ -445,8 +450,12 @@ fn db_core(d: u32, capped: bool) -> FixedReflection {
         log2_q24(GAMMA_ONE_Q31.wrapping_sub(g)).wrapping_sub(THIRTY_ONE_Q24)
     };
     let (vswr, c2) = vswr_from_log2(l1p.wrapping_sub(l1m));
-    // l1p + l1m = log2(1 − |Γ|²) ∈ (−60, 0]: no overflow.
-    let (mismatch_loss, c3) = db10_from_log2(0i32.wrapping_sub(l1p.wrapping_add(l1m)));
+    let (mismatch_loss, c3) = if d < SERIES_BELOW_DB_Q24 {
+        // l1p + l1m = log2(1 − |Γ|²) ∈ (−60, 0]: no overflow.
+        db10_from_log2(0i32.wrapping_sub(l1p.wrapping_add(l1m)))
+    } else {
+        db10_from_log2(neg_log2_one_minus_gamma_squared(g))
+    };
     FixedReflection {
         gamma,
         vswr,

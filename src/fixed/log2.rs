@@ -44,14 +44,9 @@ const LOG2_TABLE: [u32; 65] = [
 /// Table size in bytes (for the README's memory figures).
 pub const LOG2_TABLE_BYTES: usize = core::mem::size_of::<[u32; 65]>();
 
-/// log2(x) in Q8.24: for x ≥ 1 the result is in `0..32 · 2^24`. See the module doc for the
-/// error bound; `log2_q24(0)` returns [`LOG2_OF_ZERO`].
+/// x = m · 2^(e − 31) with bit 31 of m set; x must be non-zero.
 #[inline]
-pub fn log2_q24(x: u32) -> i32 {
-    if x == 0 {
-        return LOG2_OF_ZERO;
-    }
-    // Normalise: m has bit 31 set, x = m · 2^(e − 31).
+fn normalize(x: u32) -> (u32, i32) {
     let mut m = x;
     let mut e: i32 = 31;
     if m < 1 << 16 {
@@ -74,6 +69,12 @@ pub fn log2_q24(x: u32) -> i32 {
         m <<= 1;
         e -= 1;
     }
+    (m, e)
+}
+
+/// log2(m / 2^31) in Q8.24 (in `0..2^24`) for m with bit 31 set.
+#[inline]
+fn log2_mantissa(m: u32) -> u32 {
     // t = fraction after the leading one, 32 bits: index = top 6 bits, then 12 bits of
     // position inside the segment. The bits below are dropped (≤ 2^-18 of t).
     let t = m << 1;
@@ -82,9 +83,38 @@ pub fn log2_q24(x: u32) -> i32 {
     let lo = LOG2_TABLE.get(idx).copied().unwrap_or(0);
     let hi = LOG2_TABLE.get(idx + 1).copied().unwrap_or(lo);
     // hi − lo ≤ 375_270 < 2^19 and frac < 2^12: the product is < 2^31.
-    let y = lo + (((hi - lo) * frac) >> 12);
-    // e ≤ 31 and y ≤ 2^24: the sum is < 2^29.
-    (e << 24) + y as i32
+    lo + (((hi - lo) * frac) >> 12)
+}
+
+/// log2(x) in Q8.24: for x ≥ 1 the result is in `0..32 · 2^24`. See the module doc for the
+/// error bound; `log2_q24(0)` returns [`LOG2_OF_ZERO`].
+#[inline]
+pub fn log2_q24(x: u32) -> i32 {
+    if x == 0 {
+        return LOG2_OF_ZERO;
+    }
+    let (m, e) = normalize(x);
+    // e ≤ 31 and the mantissa log ≤ 2^24: the sum is < 2^29.
+    (e << 24) + log2_mantissa(m) as i32
+}
+
+/// log2(hi · 2^32 + lo) in Q8.24 (in `0..64 · 2^24`), same error bound as [`log2_q24`]
+/// (the low bits beyond the 32-bit mantissa are dropped, which the bound already allows).
+/// Monotonic non-decreasing in the 64-bit value. 0 gives [`LOG2_OF_ZERO`].
+#[inline]
+pub fn log2_u64_q24(hi: u32, lo: u32) -> i32 {
+    if hi == 0 {
+        return log2_q24(lo);
+    }
+    let (m_hi, e) = normalize(hi); // hi = m_hi · 2^(e − 31), 0 ≤ e ≤ 31
+    let s = (31 - e) as u32; // left shift applied to hi, 0..=31
+    let m = if s == 0 {
+        m_hi
+    } else {
+        m_hi | (lo >> (32 - s))
+    };
+    // value ≈ m · 2^(e + 1): e + 1 + 31 ≤ 63, the sum < 2^30.
+    ((e + 32) << 24) + log2_mantissa(m) as i32
 }
 
 #[cfg(test)]
@@ -122,6 +152,21 @@ mod tests {
         assert_eq!(log2_q24(0), LOG2_OF_ZERO);
         for k in 0..32 {
             assert_eq!(log2_q24(1 << k), k * ONE_Q24, "exact at 2^{k}");
+        }
+    }
+
+    #[test]
+    fn wide_logarithm() {
+        let bound = f64::from(LOG2_MAX_ERROR_Q24) / f64::from(ONE_Q24);
+        assert_eq!(log2_u64_q24(0, 0), LOG2_OF_ZERO);
+        assert_eq!(log2_u64_q24(0, 8), 3 * ONE_Q24);
+        assert_eq!(log2_u64_q24(1, 0), 32 * ONE_Q24);
+        assert_eq!(log2_u64_q24(1 << 30, 0), 62 * ONE_Q24);
+        let mut x: u64 = 1;
+        while x < u64::MAX / 3 {
+            let got = f64::from(log2_u64_q24((x >> 32) as u32, x as u32)) / f64::from(ONE_Q24);
+            assert!((got - libm::log2(x as f64)).abs() <= bound, "{x}");
+            x = x * 3 + 1;
         }
     }
 
