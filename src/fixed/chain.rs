@@ -25,7 +25,8 @@
 //! is then a lower bound. A zero reflected code reads as a perfect match (capped).
 //!
 //! Cost: per reading, no division, no 64-bit and no floating-point operation: four table
-//! logarithms, two table exponentials, two or three [`super::wide::mul_hi`].
+//! logarithms, two table exponentials, two or three
+//! [`super::wide::mul_hi_fast`].
 //!
 //! Panic policy: nothing here panics; constructors refuse bad configurations with
 //! [`FixedConfigError`].
@@ -37,7 +38,7 @@ use super::relations::{
     db10_from_log2, db20_from_log2, neg_log2_one_minus_gamma_squared, vswr_from_log2,
     FixedReflection, K_DB_TO_LOG2,
 };
-use super::wide::{mul_hi, mul_shr};
+use super::wide::{mul_hi, mul_hi_fast, mul_shr};
 
 /// Why a reading gives no measurement. Names and meaning as in the f32 path's
 /// `bridge::Fault` (the variants that cannot arise with integers are left out).
@@ -430,13 +431,13 @@ const DB_CEILING_Q24: u32 = (DB_CEILING_Q16 as u32) << 8;
 #[inline]
 fn db_core(d: u32, capped: bool) -> FixedReflection {
     let return_loss = DbQ16::from_bits(((d + 128) >> 8) as i32);
-    let a = mul_hi(d, K_DB_TO_LOG2); // −log2|Γ|, ≤ 16.6 · 2^24
+    let a = mul_hi_fast(d, K_DB_TO_LOG2); // −log2|Γ|, ≤ 16.6 · 2^24
     let g = exp2_neg_q31(a); // < 2^31 because a > 0
     let gamma = GammaQ31::from_bits(g);
     let l1p = log2_q24(GAMMA_ONE_Q31.wrapping_add(g)).wrapping_sub(THIRTY_ONE_Q24);
     let l1m = if d < SERIES_BELOW_DB_Q24 {
         // log2(1 − e^(−y)) = log2 y + (−y/2 + y²/24)/ln 2, y = d · ln 10 / 20 < 0.25.
-        let y = mul_hi(d, K_DB_TO_LN); // Q8.24, < 2^22
+        let y = mul_hi_fast(d, K_DB_TO_LN); // Q8.24, < 2^22
         let log2_y = log2_q24(d)
             .wrapping_sub(24 * ONE_Q24)
             .wrapping_add(LOG2_LN10_OVER_20_Q24);

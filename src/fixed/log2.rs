@@ -47,6 +47,8 @@ pub const LOG2_TABLE_BYTES: usize = core::mem::size_of::<[u32; 65]>();
 /// x = m · 2^(e − 31) with bit 31 of m set; x must be non-zero.
 #[inline]
 fn normalize(x: u32) -> (u32, i32) {
+    // A binary search: Armv6-M has no count-leading-zeros instruction, and
+    // `u32::leading_zeros` would call a library routine there.
     let mut m = x;
     let mut e: i32 = 31;
     if m < 1 << 16 {
@@ -88,7 +90,9 @@ fn log2_mantissa(m: u32) -> u32 {
 
 /// log2(x) in Q8.24: for x ≥ 1 the result is in `0..32 · 2^24`. See the module doc for the
 /// error bound; `log2_q24(0)` returns [`LOG2_OF_ZERO`].
-#[inline]
+// Not inlined: four call sites per reading, and one out-of-line copy keeps the chain small
+// (on Armv6-M the inlined copies also cost register spills).
+#[inline(never)]
 pub fn log2_q24(x: u32) -> i32 {
     if x == 0 {
         return LOG2_OF_ZERO;

@@ -10,8 +10,9 @@
 //! | mismatch loss | −10·log10(1 − \|Γ\|²) | −(10·log10 2) · log2(1 − \|Γ\|²), 1 − \|Γ\|² as an exact 64-bit integer |
 //! | VSWR | (1 + \|Γ\|)/(1 − \|Γ\|) | 2^(log2(1 + \|Γ\|) − log2(1 − \|Γ\|)) |
 //!
-//! The multiplications by 20·log10 2 and 10·log10 2 are one [`mul_hi`] each by a 32-bit
-//! constant (relative error 1e-8). Caps: return and mismatch loss at [`DB_CEILING_Q16`]
+//! The multiplications by 20·log10 2 and 10·log10 2 are one
+//! [`mul_hi_fast`](super::wide::mul_hi_fast) each by a 32-bit constant (relative error
+//! 1e-8, plus at most 2 units of the Q16.16 result). Caps: return and mismatch loss at [`DB_CEILING_Q16`]
 //! (100 dB), VSWR at [`VSWR_CEILING_Q16`] (1000), as in the f32 path; `capped` says so.
 //!
 //! Panic policy: nothing here panics.
@@ -19,7 +20,7 @@
 use super::exp2::exp2_q16;
 use super::log2::{log2_q24, log2_u64_q24, ONE_Q24};
 use super::q::{DbQ16, GammaQ31, VswrQ16, DB_CEILING_Q16, GAMMA_ONE_Q31, VSWR_CEILING_Q16};
-use super::wide::mul_hi;
+use super::wide::mul_hi_fast;
 
 /// (20·log10 2)/256 · 2^32, rounded: Q8.24 log2 → Q16.16 dB (amplitude ratio).
 pub(crate) const K20: u32 = 101_008_905;
@@ -85,13 +86,13 @@ pub(crate) fn neg_log2_one_minus_gamma_squared(g: u32) -> i32 {
 /// 100 dB; the flag says whether the cap applied.
 #[inline]
 pub(crate) fn db20_from_log2(l: i32) -> (DbQ16, bool) {
-    cap_db(mul_hi(l.max(0) as u32, K20))
+    cap_db(mul_hi_fast(l.max(0) as u32, K20))
 }
 
 /// (10·log10 2) · l in Q16.16 for a Q8.24 log2 ratio l (negative l reads as 0), capped.
 #[inline]
 pub(crate) fn db10_from_log2(l: i32) -> (DbQ16, bool) {
-    cap_db(mul_hi(l.max(0) as u32, K10))
+    cap_db(mul_hi_fast(l.max(0) as u32, K10))
 }
 
 #[inline]
