@@ -314,6 +314,17 @@ impl DbmLimits {
     }
 }
 
+#[inline(always)]
+fn total() -> FixedReflection {
+    FixedReflection {
+        gamma: GammaQ31::TOTAL,
+        vswr: super::q::VswrQ16::CEILING,
+        return_loss: DbQ16::ZERO,
+        mismatch_loss: DbQ16::from_bits(DB_CEILING_Q16),
+        capped: true,
+    }
+}
+
 const THIRTY_ONE_Q24: i32 = 31 * ONE_Q24;
 
 /// Linear-detector chain: codes proportional to amplitude (|Γ| = r/f).
@@ -335,7 +346,7 @@ impl LinearChain {
     /// The verdict and reflection quantities for one forward and one reflected code.
     pub fn measure(&self, forward: u16, reflected: u16) -> Result<FixedMeasurement, FixedFault> {
         Ok(match self.limits.verdict(forward, reflected)? {
-            Verdict::Total(q) => FixedMeasurement::new(FixedReflection::TOTAL, q),
+            Verdict::Total(q) => FixedMeasurement::new(total(), q),
             Verdict::Partial(f, r, q) => FixedMeasurement::new(linear_core(f, r), q),
         })
     }
@@ -385,7 +396,7 @@ impl SquareLawChain {
     /// The verdict and reflection quantities for one forward and one reflected code.
     pub fn measure(&self, forward: u16, reflected: u16) -> Result<FixedMeasurement, FixedFault> {
         Ok(match self.limits.verdict(forward, reflected)? {
-            Verdict::Total(q) => FixedMeasurement::new(FixedReflection::TOTAL, q),
+            Verdict::Total(q) => FixedMeasurement::new(total(), q),
             Verdict::Partial(f, r, q) => FixedMeasurement::new(square_core(f, r), q),
         })
     }
@@ -470,7 +481,7 @@ fn db_core(d: u32, capped: bool) -> FixedReflection {
 #[inline]
 fn from_db_difference(d: u32) -> FixedReflection {
     if d == 0 {
-        FixedReflection::TOTAL
+        total()
     } else if d >= DB_CEILING_Q24 {
         db_core(DB_CEILING_Q24, true)
     } else {
@@ -501,7 +512,7 @@ impl DbmChain {
     ) -> Result<FixedMeasurement, FixedFault> {
         let (d16, quality) = self.limits.verdict(forward, reflected)?;
         let reflection = match d16 {
-            None => FixedReflection::TOTAL,
+            None => total(),
             Some(d16) if d16 >= DB_CEILING_Q16 as u32 => from_db_difference(DB_CEILING_Q24),
             Some(d16) => from_db_difference(d16 << 8),
         };
@@ -578,7 +589,7 @@ impl LogDetectorChain {
         let pr = self.power(reflected);
         let (d16, quality) = self.limits.verdict(pf, pr)?;
         let reflection = match d16 {
-            None => FixedReflection::TOTAL,
+            None => total(),
             Some(_) if quality.contains(FixedQuality::REFLECTED_AT_FLOOR) => {
                 // The floor replaced the reflected power: use the power difference.
                 let d16 = d16.unwrap_or(0);

@@ -1,7 +1,7 @@
 //! Integer base-2 logarithm of a `u32`, result in Q8.24 (`i32`, 24 fraction bits).
 //!
-//! Method: normalise x = 2^e · (1 + t) with 0 ≤ t < 1 by a five-step binary search (Armv6-M
-//! has no count-leading-zeros instruction), then log2(1 + t) by linear interpolation in a
+//! Method: normalise x = 2^e · (1 + t) with 0 ≤ t < 1 by a three-step binary search and a
+//! 16-entry table (Armv6-M has no count-leading-zeros instruction), then log2(1 + t) by linear interpolation in a
 //! 65-entry table of log2(1 + i/64). This is the table-and-interpolate method of any numerical
 //! analysis text (e.g. Hildebrand, *Introduction to Numerical Analysis*, ch. 2: the error of
 //! linear interpolation is h²/8 · max|f''|). With h = 1/64 and f(t) = log2(1 + t),
@@ -13,7 +13,7 @@
 //! non-decreasing in x: the interpolant of an increasing table is increasing.
 //!
 //! Cost: no division, no 64-bit arithmetic; one 32 × 32 → 32 multiply whose factors are
-//! < 2^19 and < 2^12. Table: 65 × 4 = 260 bytes of flash.
+//! < 2^19 and < 2^12. Tables: 65 × 4 = 260 bytes plus 16 bytes of flash.
 //!
 //! Panic policy: nothing here panics. `log2_q24(0)` is [`LOG2_OF_ZERO`].
 
@@ -44,34 +44,31 @@ const LOG2_TABLE: [u32; 65] = [
 /// Table size in bytes (for the README's memory figures).
 pub const LOG2_TABLE_BYTES: usize = core::mem::size_of::<[u32; 65]>();
 
-/// x = m · 2^(e − 31) with bit 31 of m set; x must be non-zero.
+/// ⌊log2 n⌋ for n = 1..=15 (entry 0 unused): the last step of the normalisation.
+const FLOOR_LOG2_NIBBLE: [u8; 16] = [0, 0, 1, 1, 2, 2, 2, 2, 3, 3, 3, 3, 3, 3, 3, 3];
+
+/// x = m · 2^(e − 31) with bit 31 of m set, e = ⌊log2 x⌋; x must be non-zero.
 #[inline]
 fn normalize(x: u32) -> (u32, i32) {
-    // A binary search: Armv6-M has no count-leading-zeros instruction, and
-    // `u32::leading_zeros` would call a library routine there.
-    let mut m = x;
-    let mut e: i32 = 31;
-    if m < 1 << 16 {
-        m <<= 16;
-        e -= 16;
+    // Armv6-M has no count-leading-zeros instruction (and `u32::leading_zeros` would call a
+    // library routine there): three halvings of the search range, then a 16-entry table.
+    let mut e: u32 = 0;
+    let mut top = x;
+    if top >= 1 << 16 {
+        top >>= 16;
+        e = 16;
     }
-    if m < 1 << 24 {
-        m <<= 8;
-        e -= 8;
+    if top >= 1 << 8 {
+        top >>= 8;
+        e += 8;
     }
-    if m < 1 << 28 {
-        m <<= 4;
-        e -= 4;
+    if top >= 1 << 4 {
+        top >>= 4;
+        e += 4;
     }
-    if m < 1 << 30 {
-        m <<= 2;
-        e -= 2;
-    }
-    if m < 1 << 31 {
-        m <<= 1;
-        e -= 1;
-    }
-    (m, e)
+    // 1 ≤ top ≤ 15 here.
+    e += u32::from(FLOOR_LOG2_NIBBLE.get(top as usize).copied().unwrap_or(0));
+    (x << (31 - e), e as i32)
 }
 
 /// log2(m / 2^31) in Q8.24 (in `0..2^24`) for m with bit 31 set.
