@@ -35,10 +35,10 @@ use super::exp2::{exp2_neg_q31, exp2_q16};
 use super::log2::{log2_q24, ONE_Q24};
 use super::q::{DbQ16, DbmQ16, GammaQ31, DB_CEILING_Q16, GAMMA_ONE_Q31};
 use super::relations::{
-    db10_from_log2, neg_log2_one_minus_gamma_squared, vswr_from_log2, FixedReflection, K10, K20,
+    db10_from_log2, neg_log2_one_minus_gamma_squared, vswr_from_log2, FixedReflection, K_DB_Q16,
     K_DB_TO_LOG2,
 };
-use super::wide::{mul_hi, mul_hi_fast, mul_shr};
+use super::wide::{mul_hi, mul_hi_fast, mul_shr, mul_u16_shr};
 
 /// Why a reading gives no measurement. Names and meaning as in the f32 path's
 /// `bridge::Fault` (the variants that cannot arise with integers are left out).
@@ -362,7 +362,7 @@ fn linear_core(f: u32, r: u32) -> FixedReflection {
     // −log2|Γ| = log2 f − log2 r ∈ [0, 16] (log2_q24 is monotonic): RL ≤ 96.4 dB, below the
     // 100 dB cap, so no cap test is needed.
     let d = lf.wrapping_sub(lr).max(0) as u32;
-    let return_loss = DbQ16::from_bits(mul_hi_fast(d, K20) as i32);
+    let return_loss = DbQ16::from_bits(mul_u16_shr(d, K_DB_Q16, 21) as i32);
     let gamma = GammaQ31::from_bits(exp2_neg_q31(d));
     // f² − r² = (f − r)(f + r) = (1 − |Γ|²) · f² is exact in u32 (f² < 2^32) and falls as r
     // rises, so mismatch loss and VSWR come out monotonic in r.
@@ -373,7 +373,7 @@ fn linear_core(f: u32, r: u32) -> FixedReflection {
     // −log2(1 − |Γ|²) = log2 f² − log2(f² − r²) ≤ log2(f²/(2f − 1)) < 16: ML < 48 dB, below
     // the cap.
     let ml = lf.wrapping_add(lf).wrapping_sub(ld).max(0) as u32;
-    let mismatch_loss = DbQ16::from_bits(mul_hi_fast(ml, K10) as i32);
+    let mismatch_loss = DbQ16::from_bits(mul_u16_shr(ml, K_DB_Q16, 22) as i32);
     FixedReflection {
         gamma,
         vswr,
@@ -415,13 +415,13 @@ fn square_core(f: u32, r: u32) -> FixedReflection {
     let lr = log2_q24(r);
     // −log2|Γ|² ∈ [0, 16]: RL ≤ 48.2 dB, below the cap.
     let d = lf.wrapping_sub(lr).max(0) as u32;
-    let return_loss = DbQ16::from_bits(mul_hi_fast(d, K10) as i32);
+    let return_loss = DbQ16::from_bits(mul_u16_shr(d, K_DB_Q16, 22) as i32);
     // |Γ| = 2^(−d/2) < 1 because d > 0, so 2^31 + g < 2^32.
     let gamma = GammaQ31::from_bits(exp2_neg_q31(d >> 1));
     // −log2(1 − |Γ|²) = log2 f − log2(f − r) ∈ [0, 16]: ML ≤ 48.2 dB, below the cap.
     let lm = log2_q24(f - r);
     let ml = lf.wrapping_sub(lm).max(0) as u32;
-    let mismatch_loss = DbQ16::from_bits(mul_hi_fast(ml, K10) as i32);
+    let mismatch_loss = DbQ16::from_bits(mul_u16_shr(ml, K_DB_Q16, 22) as i32);
     let l1p = log2_q24(GAMMA_ONE_Q31.wrapping_add(gamma.to_bits())).wrapping_sub(THIRTY_ONE_Q24);
     // log2 VSWR = 2·log2(1 + |Γ|) − log2(1 − |Γ|²).
     let (vswr, capped) = vswr_from_log2(l1p.wrapping_add(l1p).wrapping_add(ml as i32));

@@ -22,6 +22,10 @@ use super::log2::{log2_q24, log2_u64_q24, ONE_Q24};
 use super::q::{DbQ16, GammaQ31, VswrQ16, DB_CEILING_Q16, GAMMA_ONE_Q31, VSWR_CEILING_Q16};
 use super::wide::mul_hi_fast;
 
+/// (20·log10 2) · 2^13 and (10·log10 2) · 2^14 (the same number, 49 321 rounded): with a shift
+/// of 21 or 22 it takes a Q8.24 log2 to Q16.16 dB in two 16-bit products (relative error
+/// 4e-6, at most 0.0004 dB over 96 dB).
+pub(crate) const K_DB_Q16: u16 = 49_321;
 /// (20·log10 2)/256 · 2^32, rounded: Q8.24 log2 → Q16.16 dB (amplitude ratio).
 pub(crate) const K20: u32 = 101_008_905;
 /// (10·log10 2)/256 · 2^32, rounded: Q8.24 log2 → Q16.16 dB (power ratio).
