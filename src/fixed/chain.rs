@@ -16,17 +16,20 @@
 //! −y/2 + ln(sinh(y/2)/(y/2)) and the Taylor series of ln(sinh x / x), e.g. Abramowitz &
 //! Stegun 4.5.64 with 4.1.24), truncated after y²/24 (error < 2e-6 in log2).
 //!
-//! Verdict (same meaning as the f32 path's `bridge`): the forward reading at or above the
-//! full-scale limit is [`FixedFault::ForwardSaturated`], below the noise floor
-//! [`FixedFault::ForwardBelowFloor`]; a reflected reading above the forward one (noise, or a
-//! reversed connection) is [`FixedFault::ReflectedAboveForward`]. A reflected reading equal
-//! to the forward one is a total reflection (|Γ| = 1, capped). A reflected reading below the
-//! floor is not an error: [`FixedQuality::reflected_below_floor`] is set and the return loss
-//! is then a lower bound. A zero reflected code reads as a perfect match (capped).
+//! Verdict (same meaning and flag names as the f32 path's `bridge`): a forward reading at or
+//! above the full-scale limit is [`FixedFault::ForwardSaturated`], a reflected one
+//! [`FixedFault::ReflectedSaturated`]; a forward reading at or below the noise floor is
+//! [`FixedFault::ForwardBelowFloor`]; a reflected reading above the forward one by more than
+//! the total-reflection margin (noise, or a reversed connection) is
+//! [`FixedFault::ReflectedAboveForward`], within the margin it reads as |Γ| = 1 with
+//! [`FixedQuality::CLAMPED_TOTAL`]. A reflected reading equal to the forward one is a total
+//! reflection. A reflected reading at or below the floor (a zero code included) is not an
+//! error: the floor is used in its place and [`FixedQuality::REFLECTED_AT_FLOOR`] is set, so
+//! the return loss is a lower bound. [`FixedQuality::CAPPED`] marks a value at its ceiling.
 //!
 //! Cost: per reading, no division, no 64-bit and no floating-point operation: four table
-//! logarithms, two table exponentials, two or three
-//! [`super::wide::mul_hi_fast`].
+//! logarithms, two table exponentials and a few 16 × 16 multiplies (about 350 Armv6-M
+//! instructions for the code chains; see the module doc of `fixed`).
 //!
 //! Panic policy: nothing here panics; constructors refuse bad configurations with
 //! [`FixedConfigError`].

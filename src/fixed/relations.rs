@@ -10,9 +10,9 @@
 //! | mismatch loss | −10·log10(1 − \|Γ\|²) | −(10·log10 2) · log2(1 − \|Γ\|²), 1 − \|Γ\|² as an exact 64-bit integer |
 //! | VSWR | (1 + \|Γ\|)/(1 − \|Γ\|) | 2^(log2(1 + \|Γ\|) − log2(1 − \|Γ\|)) |
 //!
-//! The multiplications by 20·log10 2 and 10·log10 2 are one
-//! [`mul_hi_fast`](super::wide::mul_hi_fast) each by a 32-bit constant (relative error
-//! 1e-8, plus at most 2 units of the Q16.16 result). Caps: return and mismatch loss at [`DB_CEILING_Q16`]
+//! The multiplications by 20·log10 2 and 10·log10 2 are one [`super::wide::mul_hi_fast`]
+//! each by a 32-bit constant (relative error 1e-8, plus at most 2 units of the Q16.16
+//! result). Caps: return and mismatch loss at [`DB_CEILING_Q16`]
 //! (100 dB), VSWR at [`VSWR_CEILING_Q16`] (1000), as in the f32 path; `capped` says so.
 //!
 //! Panic policy: nothing here panics.
