@@ -28,7 +28,7 @@
 //! the return loss is a lower bound. [`FixedQuality::CAPPED`] marks a value at its ceiling.
 //!
 //! Cost: per reading, no division, no 64-bit and no floating-point operation: four table
-//! logarithms, two table exponentials and a few 16 × 16 multiplies (about 350 Armv6-M
+//! logarithms, two table exponentials and a few 16 × 16 multiplies (about 340 Armv6-M
 //! instructions for the code chains; see the module doc of `fixed`).
 //!
 //! Panic policy: nothing here panics; constructors refuse bad configurations with

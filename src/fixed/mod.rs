@@ -38,8 +38,9 @@
 //! [`exp2::EXP2_TABLE_BYTES`]); per reading four logarithms, two exponentials and a few
 //! 16 × 16 multiplies ([`wide`]); no division, no 64-bit arithmetic and no floating point
 //! (`host-tests/tests/fixed_no_float.rs` checks the Cortex-M0 machine code). On Armv6-M
-//! (release, `opt-level = "s"`) `LinearChain::measure` runs about 350 instructions for a
-//! valid reading (`host-tests/scripts/m0_instruction_count.py`; ~45 of them per logarithm).
+//! (release, `opt-level = "s"`) `LinearChain::measure` runs 330–350 instructions for a
+//! valid reading and `SquareLawChain::measure` 320–335 (`host-tests/scripts/m0_instruction_count.py`;
+//! about 40 of them per logarithm); a refused reading returns in about 20.
 //!
 //! Panic policy: nothing in this module panics and no value is NaN or infinite (there are
 //! none in integers); bad readings give [`FixedFault`], bad configurations
