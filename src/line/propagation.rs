@@ -213,6 +213,7 @@ impl Line {
         let w = f.omega();
         // The derived quantities below must be finite too (β tiny against ω).
         limit(output(w / gamma.im)?)?;
+        limit(output(gamma.im / w)?)?;
         limit(output(core::f32::consts::TAU / gamma.im)?)?;
         Ok(Self {
             frequency: f,
