@@ -77,8 +77,8 @@ impl DbQ16 {
     /// on the whole part, or on the hundredths when the whole part is 0).
     pub fn to_centi_db(self) -> i32 {
         // |raw| ≤ 2^31, × 100 fits i64.
-        let v = (self.0 as i64) * 100;
-        ((v + (ONE_Q16 / 2)) >> 16) as i32
+        let v = i64::from(self.0).wrapping_mul(100);
+        (v.wrapping_add(ONE_Q16 / 2) >> 16) as i32
     }
 
     /// The value as `f32` (for host tools and tests; costs soft-float on an FPU-less part).
@@ -167,13 +167,13 @@ fn log2_q20(x: u64, frac_bits: u32) -> Option<i64> {
     if x == 0 {
         return None;
     }
-    let msb = 63 - x.leading_zeros(); // 0..=63
-    let int = i64::from(msb) - i64::from(frac_bits.min(63));
+    let msb = 63u32.saturating_sub(x.leading_zeros()); // 0..=63 for x ≠ 0
+    let int = i64::from(msb).wrapping_sub(i64::from(frac_bits.min(63)));
     // Normalise to y in [2^31, 2^32): y/2^31 in [1, 2). Shift amounts are < 64.
     let mut y: u64 = if msb >= 31 {
-        x >> (msb - 31)
+        x.wrapping_shr(msb.wrapping_sub(31))
     } else {
-        x << (31 - msb)
+        x.wrapping_shl(31u32.wrapping_sub(msb))
     };
     let mut frac: i64 = 0;
     for _ in 0..20 {
@@ -185,7 +185,8 @@ fn log2_q20(x: u64, frac_bits: u32) -> Option<i64> {
             frac |= 1;
         }
     }
-    Some(int * (1 << 20) + frac)
+    // |int| ≤ 63, frac < 2^20.
+    Some(int.wrapping_mul(1 << 20).wrapping_add(frac))
 }
 
 /// 2^(x/2^20) for x ≤ 0 as Q0.32 (1.0 = 2^32).
@@ -194,18 +195,21 @@ fn exp2_neg_q20_to_q32(x: i64) -> u64 {
     let n = x >> 20; // floor, ≤ 0
     let f = x & ((1 << 20) - 1); // 0..2^20
     let mut acc: u64 = 1 << 30;
-    for (k, c) in EXP2_TABLE.iter().enumerate() {
-        if (f >> (19 - k)) & 1 == 1 {
+    let mut bit: i64 = 1 << 19; // 2^−1 in Q20, then 2^−2, …
+    for c in EXP2_TABLE.iter() {
+        if f & bit != 0 {
             // acc < 2^31 and c < 2^31: the product < 2^62.
-            acc = (acc.wrapping_mul(*c) + (1 << 29)) >> 30;
+            acc = acc.wrapping_mul(*c).wrapping_add(1 << 29) >> 30;
         }
+        bit >>= 1;
     }
     // acc in [2^30, 2^31) is 2^f in Q2.30; ×4 → Q0.32, then ÷ 2^−n.
     let shift = n.unsigned_abs();
     if shift >= 40 {
         0
     } else {
-        (acc << 2) >> shift
+        // shift < 40 (checked above).
+        acc.wrapping_shl(2).wrapping_shr(shift as u32)
     }
 }
 
@@ -216,34 +220,33 @@ fn clamp_db(x: i64) -> DbQ16 {
 /// Q20 log2 × Q28 constant → Q16 dB, rounded.
 fn log2_to_db(l_q20: i64, k_q28: i64) -> i64 {
     // |l| ≤ 64·2^20 = 2^26 and k < 2^31: the product < 2^57.
-    (l_q20 * k_q28 + (1 << 31)) >> 32
+    l_q20.wrapping_mul(k_q28).wrapping_add(1 << 31) >> 32
 }
 
 /// 10^(−db/div) as Q0.32 for db ≥ 0 (Q16), with div's log2(10)/div constant.
 fn pow10_neg(db: DbQ16, k_q28: i64) -> u64 {
     // Clamp to 0..=2^24 (256 dB): the product < 2^24 · 2^27 = 2^51.
     let d = i64::from(db.0).clamp(0, 1 << 24);
-    let x = -((d * k_q28 + (1 << 23)) >> 24);
+    let x = -(d.wrapping_mul(k_q28).wrapping_add(1 << 23) >> 24);
     exp2_neg_q20_to_q32(x)
 }
 
 /// |Γ| (Q0.32) → SWR.
 fn gamma_q32_to_swr(g: u64) -> SwrQ16 {
     let g = g.min(ONE_Q32);
-    let den = ONE_Q32 - g;
-    if den == 0 {
+    let den = ONE_Q32.saturating_sub(g);
+    // (1 + g) ≤ 2^33, << 16 ≤ 2^49.
+    let num = ONE_Q32.wrapping_add(g).wrapping_shl(16);
+    let Some(s) = num.wrapping_add(den / 2).checked_div(den) else {
         return SwrQ16::CEILING;
-    }
-    // (1 + g) < 2^33, << 16 < 2^49.
-    let num = (ONE_Q32 + g) << 16;
-    let s = (num + den / 2) / den;
+    };
     SwrQ16(s.clamp(SwrQ16::MATCHED.0 as u64, SwrQ16::CEILING.0 as u64) as u32)
 }
 
 /// 10·log10(1 − 10^(−RL/10)) in Q16 (≤ 0); `None` when RL = 0 (total reflection).
 fn delivered_db(rl: DbQ16) -> Option<i64> {
     let p = pow10_neg(rl, LOG2_10_OVER_10_Q28).min(ONE_Q32);
-    let q = ONE_Q32 - p;
+    let q = ONE_Q32.saturating_sub(p);
     let l = log2_q20(q, 32)?;
     Some(log2_to_db(l, TEN_LOG10_2_Q28).min(0))
 }
@@ -262,16 +265,17 @@ fn non_negative(db: DbQ16) -> Result<DbQ16, LineError> {
 /// RL/2, rounded (RL capped at 100 dB first). Negative RL is refused.
 pub fn matched_loss_from_open_short(rl: DbQ16) -> Result<DbQ16, LineError> {
     let r = non_negative(rl)?.0.min(DbQ16::CEILING.0);
-    Ok(DbQ16((r + 1) >> 1))
+    // r ≤ 100·2^16: no overflow.
+    Ok(DbQ16(r.wrapping_add(1) >> 1))
 }
 
 /// Return loss 20·log10((S + 1)/(S − 1)), capped at 100 dB (SWR 1.0 reads 100 dB).
 pub fn swr_to_return_loss(swr: SwrQ16) -> DbQ16 {
     let s = u64::from(swr.0);
     let den = s.saturating_sub(ONE_Q16 as u64);
-    let num = s + ONE_Q16 as u64;
+    let num = s.wrapping_add(ONE_Q16 as u64); // s < 2^32
     match (log2_q20(num, 16), log2_q20(den, 16)) {
-        (Some(a), Some(b)) => clamp_db(log2_to_db(a - b, TWENTY_LOG10_2_Q28)),
+        (Some(a), Some(b)) => clamp_db(log2_to_db(a.wrapping_sub(b), TWENTY_LOG10_2_Q28)),
         _ => DbQ16::CEILING,
     }
 }
@@ -290,7 +294,7 @@ pub fn return_loss_to_swr(rl: DbQ16) -> Result<SwrQ16, LineError> {
 pub fn return_loss_at_load(rl_in: DbQ16, matched_loss: DbQ16) -> Result<LoadSwrQ16, LineError> {
     let rl = i64::from(non_negative(rl_in)?.0);
     let ml = i64::from(non_negative(matched_loss)?.0);
-    let rl_load = rl - 2 * ml; // both < 2^31: no overflow in i64
+    let rl_load = rl.saturating_sub(ml.saturating_mul(2));
     let clamped = rl_load < 0;
     let r = clamp_db(rl_load);
     Ok(LoadSwrQ16 {
@@ -320,7 +324,7 @@ pub fn swr_at_input(swr_load: SwrQ16, matched_loss: DbQ16) -> Result<SwrQ16, Lin
     if swr_load == SwrQ16::MATCHED {
         return Ok(SwrQ16::MATCHED);
     }
-    let rl = i64::from(swr_to_return_loss(swr_load).0) + 2 * ml;
+    let rl = i64::from(swr_to_return_loss(swr_load).0).saturating_add(ml.saturating_mul(2));
     return_loss_to_swr(clamp_db(rl))
 }
 
@@ -332,12 +336,16 @@ pub fn total_loss_from_return_loss(
 ) -> Result<DbQ16, LineError> {
     let ml = i64::from(non_negative(matched_loss)?.0);
     let rl = non_negative(rl_load)?;
-    let rl_in = DbQ16((i64::from(rl.0) + 2 * ml).min(1 << 24) as i32);
+    let rl_in = DbQ16(
+        i64::from(rl.0)
+            .saturating_add(ml.saturating_mul(2))
+            .min(1 << 24) as i32,
+    );
     let Some(load) = delivered_db(rl) else {
         return Ok(DbQ16::CEILING);
     };
     let input = delivered_db(rl_in).unwrap_or(load);
-    let t = (ml + input - load).max(ml);
+    let t = ml.saturating_add(input).saturating_sub(load).max(ml);
     Ok(clamp_db(t))
 }
 

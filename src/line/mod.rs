@@ -34,7 +34,8 @@ pub mod propagation;
 pub mod terminated;
 
 pub use feed_loss::{
-    power_at_load, return_loss_at_load, swr_at_input, swr_at_load, total_loss, LoadReading,
+    feed_report, power_at_load, return_loss_at_load, swr_at_input, swr_at_load, total_loss,
+    FeedReport, LoadReading,
 };
 pub use geometry::{CoaxGeometry, Dielectric, TwoWireGeometry, COPPER_CONDUCTIVITY};
 pub use loss_fit::{LossModel, LossPoint};
