@@ -3,7 +3,8 @@
 //! the conductivity as a parameter (copper by default); dielectric conductance from the loss
 //! tangent.
 //!
-//! Formulas (Pozar, *Microwave Engineering*, 4th ed., Table 2.1 and §1.7; a = inner radius,
+//! Formulas (Pozar, *Microwave Engineering*, 4th ed., Table 2.1, and chapter 1 for the skin depth of a good
+//! conductor; a = inner radius,
 //! b = outer radius, D = centre spacing, d = conductor diameter, ε = ε0·εr):
 //!
 //! | | coaxial | two-wire |

@@ -15,10 +15,10 @@
 //! everything is SI per metre.
 //!
 //! Supported: uniform TEM lines, lossy or lossless, quasi-static geometry formulas, skin-effect
-//! conductor loss. Not supported: dispersion of εr or tanδ with frequency, the proximity
-//! effect in coax (it is exact for concentric conductors), conductor roughness, braid
-//! leakage, non-TEM modes above cut-off, the DC regime where the skin depth exceeds the
-//! conductor (see [`geometry::skin_depth`]).
+//! conductor loss (with the proximity factor for two-wire lines). Not supported: dispersion
+//! of εr or tanδ with frequency, conductor roughness, stranding and braid, non-TEM modes
+//! above cut-off, the DC regime where the skin depth exceeds the conductor (see
+//! [`geometry::skin_depth`]).
 //!
 //! Panic policy: no public function panics, and none returns NaN or infinity; bad input gives
 //! a [`LineError`]. Results that are infinite in the mathematics (the input impedance of an
