@@ -17,6 +17,9 @@
 //! | [`Watts`] | power | |
 //! | [`Volts`] | detector output, ADC reference | |
 //! | [`Dbm`] | absolute power, dB relative to 1 mW | `Dbm - Dbm = Db`, `Dbm + Db = Dbm` |
+//! | [`Henries`], [`Farads`] | inductance, capacitance | equivalent L or C of a reactance |
+//! | [`Siemens`] | conductance or susceptance | |
+//! | [`Seconds`] | time, e.g. an offset delay | |
 //!
 //! Panic policy: nothing in this module panics.
 
@@ -534,3 +537,25 @@ mod tests {
         assert_eq!(DbPer::from_loss(Db::new(f32::NAN), Feet::new(1.0)), None);
     }
 }
+
+// Units added for vector impedance and calibration-standard models.
+scalar_unit!(
+    /// An inductance in henries.
+    Henries,
+    "H"
+);
+scalar_unit!(
+    /// A capacitance in farads.
+    Farads,
+    "F"
+);
+scalar_unit!(
+    /// A conductance, susceptance or admittance magnitude in siemens.
+    Siemens,
+    "S"
+);
+scalar_unit!(
+    /// A time interval (for example an offset delay) in seconds.
+    Seconds,
+    "s"
+);
