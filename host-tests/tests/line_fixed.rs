@@ -3,7 +3,9 @@
 //! f64. Each sweep prints the worst error and where; the bounds are the constants exported
 //! by the module (RL_BOUND_DB, TOTAL_LOSS_BOUND_DB, SWR_BOUND_REL).
 
-use feedline::line::fixed::{self, DbQ16, SwrQ16, RL_BOUND_DB, SWR_BOUND_REL, TOTAL_LOSS_BOUND_DB};
+use feedline::line::fixed::{
+    self, DbQ16, VswrQ16, RL_BOUND_DB, SWR_BOUND_REL, TOTAL_LOSS_BOUND_DB,
+};
 use feedline_host_tests::reference::line as reference;
 
 fn q(x: f64) -> i32 {
@@ -50,10 +52,10 @@ impl Worst {
 }
 
 /// SWR values from 1.0001 to `top`, geometric.
-fn swrs(top: f64, n: usize) -> impl Iterator<Item = SwrQ16> {
+fn swrs(top: f64, n: usize) -> impl Iterator<Item = VswrQ16> {
     (0..n).map(move |i| {
         let s = 1.0 + 1e-4 * ((top - 1.0) / 1e-4).powf(i as f64 / (n - 1) as f64);
-        SwrQ16::from_raw(q(s) as u32).unwrap()
+        VswrQ16::from_bits(q(s) as u32)
     })
 }
 
@@ -61,20 +63,20 @@ fn swrs(top: f64, n: usize) -> impl Iterator<Item = SwrQ16> {
 fn return_loss_and_swr_conversions() {
     let mut w_rl = Worst::new("SWR → RL (dB), SWR 1.0001–100");
     for s in swrs(100.0, 4000) {
-        let sv = f(i64::from(s.raw()));
+        let sv = f(i64::from(s.to_bits()));
         let want = reference::return_loss(reference::gamma_from_vswr(sv)).min(100.0);
-        let got = f(i64::from(fixed::swr_to_return_loss(s).raw()));
+        let got = f(i64::from(fixed::swr_to_return_loss(s).to_bits()));
         w_rl.see((got - want).abs(), || format!("SWR {sv}"));
     }
     w_rl.report(RL_BOUND_DB);
 
     let mut w_s = Worst::new("RL → SWR (relative), RL 0.2–60 dB (SWR ≤ 87)");
     for i in 0..4000 {
-        let rl = DbQ16::from_raw(q(0.2 + 59.8 * i as f64 / 3999.0));
-        let want = reference::vswr(10f64.powf(-f(i64::from(rl.raw())) / 20.0));
-        let got = f(i64::from(fixed::return_loss_to_swr(rl).unwrap().raw()));
+        let rl = DbQ16::from_bits(q(0.2 + 59.8 * i as f64 / 3999.0));
+        let want = reference::vswr(10f64.powf(-f(i64::from(rl.to_bits())) / 20.0));
+        let got = f(i64::from(fixed::return_loss_to_swr(rl).unwrap().to_bits()));
         w_s.see((got - want).abs() / want, || {
-            format!("RL {}", f(i64::from(rl.raw())))
+            format!("RL {}", f(i64::from(rl.to_bits())))
         });
     }
     w_s.report(SWR_BOUND_REL);
@@ -85,16 +87,16 @@ fn swr_through_the_line() {
     let mut w_load = Worst::new("SWR at load (relative), SWR_load ≤ 20");
     let mut w_in = Worst::new("SWR at input (relative)");
     for ml_i in 0..60 {
-        let ml = DbQ16::from_raw(q(ml_i as f64 * 0.25));
-        let mlv = f(i64::from(ml.raw()));
+        let ml = DbQ16::from_bits(q(ml_i as f64 * 0.25));
+        let mlv = f(i64::from(ml.to_bits()));
         for s in swrs(20.0, 300) {
-            let sv = f(i64::from(s.raw()));
+            let sv = f(i64::from(s.to_bits()));
             // At the input from the load.
             let want_in = reference::vswr(reference::gamma_at_input(
                 reference::gamma_from_vswr(sv),
                 mlv,
             ));
-            let got_in = f(i64::from(fixed::swr_at_input(s, ml).unwrap().raw()));
+            let got_in = f(i64::from(fixed::swr_at_input(s, ml).unwrap().to_bits()));
             w_in.see((got_in - want_in).abs() / want_in, || {
                 format!("ML {mlv} SWR_load {sv}")
             });
@@ -104,7 +106,7 @@ fn swr_through_the_line() {
             if gl < 1.0 {
                 let want = reference::vswr(gl);
                 if want <= 20.0 {
-                    let got = f(i64::from(r.swr.raw()));
+                    let got = f(i64::from(r.swr.to_bits()));
                     w_load.see((got - want).abs() / want, || {
                         format!("ML {mlv} SWR_in {sv}")
                     });
@@ -123,12 +125,12 @@ fn swr_through_the_line() {
 fn total_loss_and_open_short() {
     let mut w = Worst::new("total loss (dB), ML ≤ 20 dB, SWR_load ≤ 100");
     for ml_i in 0..=80 {
-        let ml = DbQ16::from_raw(q(ml_i as f64 * 0.25));
-        let mlv = f(i64::from(ml.raw()));
+        let ml = DbQ16::from_bits(q(ml_i as f64 * 0.25));
+        let mlv = f(i64::from(ml.to_bits()));
         for s in swrs(100.0, 200) {
-            let sv = f(i64::from(s.raw()));
+            let sv = f(i64::from(s.to_bits()));
             let want = reference::total_loss(mlv, reference::gamma_from_vswr(sv));
-            let got = f(i64::from(fixed::total_loss(ml, s).unwrap().raw()));
+            let got = f(i64::from(fixed::total_loss(ml, s).unwrap().to_bits()));
             w.see((got - want).abs(), || format!("ML {mlv} SWR_load {sv}"));
         }
     }
@@ -136,13 +138,13 @@ fn total_loss_and_open_short() {
 
     let mut w_ml = Worst::new("open/short matched loss (dB)");
     for i in 0..10_000 {
-        let rl = DbQ16::from_raw(i * 491);
-        let want = reference_half(f(i64::from(rl.raw())));
+        let rl = DbQ16::from_bits(i * 491);
+        let want = reference_half(f(i64::from(rl.to_bits())));
         let got = f(i64::from(
-            fixed::matched_loss_from_open_short(rl).unwrap().raw(),
+            fixed::matched_loss_from_open_short(rl).unwrap().to_bits(),
         ));
         w_ml.see((got - want).abs(), || {
-            format!("RL {}", f(i64::from(rl.raw())))
+            format!("RL {}", f(i64::from(rl.to_bits())))
         });
     }
     // Half a Q16.16 step: the rounding of RL/2.

@@ -4,7 +4,7 @@
 use feedline::line::feed_loss::{
     additional_loss, gamma_at_input, gamma_at_load, return_loss_at_load,
 };
-use feedline::line::fixed::{self, DbQ16, SwrQ16};
+use feedline::line::fixed::{self, DbQ16, VswrQ16, DB_CEILING};
 use feedline::line::geometry::{skin_depth, surface_resistance};
 use feedline::line::{
     power_at_load, swr_at_input, swr_at_load, total_loss, CoaxGeometry, Dielectric, Line,
@@ -160,16 +160,16 @@ proptest! {
 
     #[test]
     fn fixed_never_panics(a in any::<i32>(), b in any::<i32>(), s in any::<u32>()) {
-        let (a, b) = (DbQ16::from_raw(a), DbQ16::from_raw(b));
-        let sw = SwrQ16::from_raw(s).unwrap_or(SwrQ16::MATCHED);
-        if let Ok(m) = fixed::matched_loss_from_open_short(a) { prop_assert!(m.raw() >= 0); }
+        let (a, b) = (DbQ16::from_bits(a), DbQ16::from_bits(b));
+        let sw = VswrQ16::from_bits(s);
+        if let Ok(m) = fixed::matched_loss_from_open_short(a) { prop_assert!(m.to_bits() >= 0); }
         let rl = fixed::swr_to_return_loss(sw);
-        prop_assert!(rl >= DbQ16::ZERO && rl <= DbQ16::CEILING);
-        if let Ok(v) = fixed::return_loss_to_swr(a) { prop_assert!(v >= SwrQ16::MATCHED && v <= SwrQ16::CEILING); }
-        if let Ok(r) = fixed::swr_at_load(sw, b) { prop_assert!(r.swr <= SwrQ16::CEILING && r.return_loss >= DbQ16::ZERO); }
-        if let Ok(v) = fixed::swr_at_input(sw, b) { prop_assert!(v >= SwrQ16::MATCHED); }
-        if let Ok(r) = fixed::return_loss_at_load(a, b) { prop_assert!(r.return_loss <= DbQ16::CEILING); }
-        if let Ok(t) = fixed::total_loss(b, sw) { prop_assert!(t >= DbQ16::ZERO && t <= DbQ16::CEILING); }
-        if let Ok(t) = fixed::total_loss_from_return_loss(b, a) { prop_assert!(t >= DbQ16::ZERO && t <= DbQ16::CEILING); }
+        prop_assert!(rl >= DbQ16::ZERO && rl <= DB_CEILING);
+        if let Ok(v) = fixed::return_loss_to_swr(a) { prop_assert!(v >= VswrQ16::ONE && v <= VswrQ16::CEILING); }
+        if let Ok(r) = fixed::swr_at_load(sw, b) { prop_assert!(r.swr <= VswrQ16::CEILING && r.return_loss >= DbQ16::ZERO); }
+        if let Ok(v) = fixed::swr_at_input(sw, b) { prop_assert!(v >= VswrQ16::ONE); }
+        if let Ok(r) = fixed::return_loss_at_load(a, b) { prop_assert!(r.return_loss <= DB_CEILING); }
+        if let Ok(t) = fixed::total_loss(b, sw) { prop_assert!(t >= DbQ16::ZERO && t <= DB_CEILING); }
+        if let Ok(t) = fixed::total_loss_from_return_loss(b, a) { prop_assert!(t >= DbQ16::ZERO && t <= DB_CEILING); }
     }
 }
