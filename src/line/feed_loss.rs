@@ -129,7 +129,8 @@ pub fn total_loss(matched_loss: Db, gamma_load: Gamma) -> Result<Db, LineError> 
     // |Γin| < |ΓL| < 1 for ML > 0; for ML = 0 they are equal and the terms cancel.
     let inp = log_delivered(g_in).unwrap_or(load);
     let t = ml + inp - load;
-    Ok(Db::new(output(t)?.clamp(ml.min(DB_CEILING), DB_CEILING)))
+    // max/min rather than clamp: clamp's own min ≤ max check would be a panic path.
+    Ok(Db::new(output(t)?.max(ml.min(DB_CEILING)).min(DB_CEILING)))
 }
 
 /// The extra loss the mismatch causes: total loss − matched loss (≥ 0 dB).

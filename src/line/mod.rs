@@ -33,6 +33,9 @@ pub mod loss_fit;
 pub mod propagation;
 pub mod terminated;
 
+/// The complex type of the line APIs (re-exported so callers need no direct dependency).
+pub use num_complex::Complex32;
+
 pub use feed_loss::{
     feed_report, power_at_load, return_loss_at_load, swr_at_input, swr_at_load, total_loss,
     FeedReport, LoadReading,
