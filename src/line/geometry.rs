@@ -142,8 +142,8 @@ struct Shape {
     sigma: f32,
 }
 
-/// The lossless constants and the Z0 of a shape: (L, C, Z0) with `l_k` = L·π/μ0 / factor
-/// and `c_k` = C/(π ε) · factor.
+/// L and C per metre of a shape: L = μ0·`l_scale`·factor, C = `c_scale`·ε0·εr/factor
+/// (coax: 1/(2π) and 2π; two-wire: 1/π and π).
 fn lc(shape: &Shape, l_scale: f32, c_scale: f32) -> Result<(f32, f32), LineError> {
     let l = output(MU_0 * l_scale * shape.factor)?;
     let c = output(c_scale * EPSILON_0 * shape.er / shape.factor)?;
