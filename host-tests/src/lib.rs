@@ -1,4 +1,5 @@
-//! Host-side support for feedline's tests: the independent f64 reference model.
+//! Host-side support for feedline's tests: the independent f64 reference model, captured
+//! sweeps and the SVG plot renderer.
 //!
 //! The reference model is written apart from the core and never calls it, so that a check
 //! of the core against it compares two independent computations of the same textbook
@@ -6,4 +7,6 @@
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]
 
+pub mod capture;
 pub mod reference;
+pub mod svg;

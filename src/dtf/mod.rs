@@ -48,7 +48,7 @@ mod window;
 
 pub use fft::{forward_in_place, FFT_MAX, FFT_MIN};
 pub use loss::{AttenuationModel, LossCoefficients, NoLoss};
-pub use peaks::Fault;
+pub use peaks::{Fault, FaultSearch};
 pub use transform::{
     scalar_transform_in_place, transform_in_place, DtfResponse, DtfSetup, ResponseKind,
     COMPENSATION_MAX_DB, SPEED_OF_LIGHT,
