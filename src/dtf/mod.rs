@@ -53,7 +53,7 @@ pub use transform::{
     scalar_transform_in_place, transform_in_place, DtfResponse, DtfSetup, ResponseKind,
     COMPENSATION_MAX_DB, SPEED_OF_LIGHT,
 };
-pub use window::{bessel_i0, cos_turns, Window, COS_TURNS_BOUND, KAISER_BETA_MAX};
+pub use window::{bessel_i0, cos_turns, PreparedWindow, Window, COS_TURNS_BOUND, KAISER_BETA_MAX};
 
 /// Why a distance-to-fault transform cannot be made.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
