@@ -39,8 +39,8 @@
 //! [`exp2::EXP2_TABLE_BYTES`]); per reading four logarithms, two exponentials and a few
 //! 16 × 16 multiplies ([`wide`]); no division, no 64-bit arithmetic and no floating point
 //! (`host-tests/tests/fixed_no_float.rs` checks the Cortex-M0 machine code). On Armv6-M
-//! (release, `opt-level = "s"`) `LinearChain::measure` runs 330–350 instructions for a
-//! valid reading and `SquareLawChain::measure` 320–335 (`host-tests/scripts/m0_instruction_count.py`;
+//! (release, `opt-level = "s"`) `LinearChain::measure` runs 300–350 instructions for a
+//! valid reading and `SquareLawChain::measure` 280–325 (`host-tests/scripts/m0_instruction_count.py`;
 //! about 40 of them per logarithm); a refused reading returns in about 20.
 //!
 //! Panic policy: nothing in this module panics and no value is NaN or infinite (there are
