@@ -230,10 +230,8 @@ mod proof {
         }
     }
 
-    /// A stand-in chain: the monitor's own state machine is proven here apart from
-    /// `PowerChain`. `PowerChain` links in the release proof, but with overflow checks on, the
-    /// plain additions in `fixed::log2` / `fixed::exp2` still leave overflow panic paths; add
-    /// `keep(PowerChain.figures(reading))` here once those use wrapping arithmetic.
+    /// A stand-in chain whose figures come straight from the inputs, so the monitor's state
+    /// machine sees every VSWR; `PowerChain` is proven beside it.
     struct ProofChain;
     impl feedline::monitor::LineMath for ProofChain {
         fn figures(&self, r: feedline::monitor::PowerReading) -> feedline::monitor::LineFigures {
@@ -288,6 +286,15 @@ mod proof {
             keep(m.alarm_state());
             keep(m.protection().error_count());
             keep(m.config().hold_off);
+        }
+        keep(feedline::monitor::PowerChain.figures(input(reading)));
+        if let Ok(mut m) = Monitor::<_, _, 16>::new(
+            config,
+            feedline::monitor::PowerChain,
+            ProofPin,
+            input(PinSense::PermitHigh),
+        ) {
+            keep(m.update(input(reading)));
         }
     }
 
