@@ -15,7 +15,8 @@
 //! Γ near +1 (an open) makes Z unbounded and Γ near −1 (a short) makes Y unbounded: the
 //! normalised ratio |Z|/Z0 (or |Y|·Z0) is capped at [`RATIO_CEILING`] with the direction
 //! kept, and [`Impedance::is_capped`] / [`Admittance::is_capped`] say so. The division
-//! is done as n·conj(d/|d|)/|d|, which cannot overflow inside the cap.
+//! n/d compares squared norms and uses one reciprocal when both are of ordinary size, and
+//! otherwise goes through `hypotf` as n·conj(d/|d|)/|d|; neither can overflow inside the cap.
 //!
 //! Supported: any finite Γ within the raw limit, including |Γ| > 1 (negative R, as an
 //! uncorrected reading near an open can give). Parallel equivalents that are infinite
