@@ -6,8 +6,9 @@
 //! cut at every `0x00`; each segment is tried as a frame first (COBS, length, CRC-32), and
 //! a segment that is not a good frame but reads as text (ends in `\n` or at the end of the
 //! capture, at least 90 % printable ASCII) is read as lines. Lines starting with the record
-//! tag `fl.` are parsed and CRC-checked; other lines (command replies, chatter) are counted
-//! and skipped. Everything else is a corrupted frame, reported with its byte offset.
+//! tag `fl.` (or holding it or ` crc=` anywhere, as when noise hit the line's start) are
+//! parsed and CRC-checked; other lines (command replies, chatter) are counted and skipped.
+//! Everything else is a corrupted frame, reported with its byte offset.
 //!
 //! Touchstone output follows the Touchstone File Format Specification version 1.1 (EIA/IBIS
 //! Open Forum): an option line `# Hz S RI R 50`, then one `frequency Re(S11) Im(S11)` line
@@ -105,7 +106,8 @@ impl Capture {
             if trimmed.is_empty() {
                 continue;
             }
-            if !trimmed.starts_with(b"fl.") && trimmed.iter().all(|b| b.is_ascii()) {
+            let has = |pat: &[u8]| trimmed.windows(pat.len()).any(|w| w == pat);
+            if !has(b"fl.") && !has(b" crc=") && trimmed.iter().all(|b| b.is_ascii()) {
                 self.other_lines += 1;
                 continue;
             }
