@@ -221,9 +221,12 @@ pub fn write_line<W: embedded_io::Write>(
     }
 }
 
-/// Unsigned decimal digits only (1..=20 of them).
+/// Unsigned decimal digits only (1..=20 of them), no leading zero: the writer's form.
 fn parse_u64(s: &str) -> Result<u64, LineError> {
     if s.is_empty() || s.len() > 20 || !s.bytes().all(|b| b.is_ascii_digit()) {
+        return Err(LineError::Number);
+    }
+    if s.len() > 1 && s.starts_with('0') {
         return Err(LineError::Number);
     }
     s.bytes().try_fold(0u64, |acc, b| {
@@ -248,7 +251,16 @@ fn parse_fixed(s: &str, decimals: usize) -> Result<i64, LineError> {
         return Err(LineError::Number);
     }
     let i = parse_u64(int)?;
-    let f = if decimals == 0 { 0 } else { parse_u64(frac)? };
+    let f = if decimals == 0 {
+        0
+    } else if frac.bytes().all(|b| b.is_ascii_digit()) {
+        frac.bytes().fold(0u64, |a, b| {
+            a.saturating_mul(10)
+                .saturating_add(u64::from(b.wrapping_sub(b'0')))
+        })
+    } else {
+        return Err(LineError::Number);
+    };
     let scale = 10u64.pow(u32::try_from(decimals).unwrap_or(0).min(9));
     let mag = i
         .checked_mul(scale)
@@ -420,5 +432,11 @@ mod tests {
         assert_eq!(parse_fixed("-0.000", 3), Err(LineError::Number));
         assert_eq!(parse_fixed("-1.250", 3), Ok(-1250));
         assert_eq!(parse_fixed("1.25", 3), Err(LineError::Number));
+        // Found by fuzzing (line_parser): leading zeros were accepted, so a parsed line
+        // did not re-print identically. Only the writer's form is accepted now.
+        assert_eq!(parse_u64("09"), Err(LineError::Number));
+        assert_eq!(parse_fixed("01.000", 3), Err(LineError::Number));
+        assert_eq!(parse_fixed("0.005", 3), Ok(5));
+        assert_eq!(parse_u64("0"), Ok(0));
     }
 }
