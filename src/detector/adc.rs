@@ -29,7 +29,7 @@ impl Adc {
         if r <= 0.0 {
             return Err(DetectorError::BadParameter);
         }
-        let counts = (1u32 << bits) as f32;
+        let counts = 1u32.wrapping_shl(u32::from(bits)) as f32;
         Ok(Adc {
             bits,
             volts_per_code: r / counts,
@@ -39,7 +39,7 @@ impl Adc {
 
     /// The top code, `2^bits − 1`; a reading at or above it is saturated.
     pub fn full_scale(&self) -> u32 {
-        (1u32 << self.bits) - 1
+        1u32.wrapping_shl(u32::from(self.bits)).wrapping_sub(1)
     }
 
     /// Volts per code (one LSB).

@@ -1,0 +1,16 @@
+//! Footprint firmware: the bare board plus the core's f32 scalar chain (ADC codes → measurement
+//! with bounds and quality verdict, src/bridge.rs) and its configuration.
+#![cfg_attr(target_os = "none", no_std, no_main)]
+
+#[cfg(target_os = "none")]
+#[path = "../ops.rs"]
+#[allow(dead_code)]
+mod ops;
+
+bench_fw::size_firmware!(
+    match ops::Ctx::new() {
+        Some(ctx) => ctx,
+        None => bench_fw::exit(false),
+    },
+    ops::chain_f32
+);
