@@ -21,6 +21,9 @@
 fn main() {}
 
 #[cfg(target_os = "none")]
+mod proto;
+
+#[cfg(target_os = "none")]
 mod proof {
     use core::hint::black_box as input;
     use feedline::bridge::{self, BridgeAdc, BridgeSpec, Detector, Quality, RawPair, ScalarChain};
@@ -220,6 +223,8 @@ mod proof {
         prove_cable();
         prove_detector();
         prove_bridge();
+        crate::proto::prove_report();
+        crate::proto::prove_command();
         #[cfg(feature = "canary")]
         {
             let table = input([1u8; 4]);
