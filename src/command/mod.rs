@@ -3,7 +3,7 @@
 //! [`Settings`] those commands change, with a CRC-checked byte image for the
 //! power-fail-safe store.
 //!
-//! - [`parse`]: the command words and their grammar (our own), and [`CommandError`].
+//! - [`mod@parse`]: the command words and their grammar (our own), and [`CommandError`].
 //! - [`console`]: byte-at-a-time line assembly into a fixed buffer, the lock with its
 //!   timeout, reply lines, and the [`Action`]s left to the application.
 //! - [`settings`]: the [`Settings`] struct, ranges, `encode`/`decode`, and its
