@@ -21,6 +21,9 @@
 fn main() {}
 
 #[cfg(target_os = "none")]
+mod proto;
+
+#[cfg(target_os = "none")]
 mod proof {
     use core::hint::black_box as input;
     use feedline::bridge::{self, BridgeAdc, BridgeSpec, Detector, Quality, RawPair, ScalarChain};
@@ -643,6 +646,8 @@ mod proof {
         prove_store();
         prove_monitor();
         prove_line();
+        crate::proto::prove_report();
+        crate::proto::prove_command();
         #[cfg(feature = "canary")]
         {
             let table = input([1u8; 4]);

@@ -5,6 +5,7 @@
 
 pub mod bridge_sim;
 pub mod calibration;
+pub mod crc32;
 pub mod fixed_scalar;
 pub mod line;
 pub mod line_faults;
