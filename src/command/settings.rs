@@ -2,19 +2,19 @@
 //!
 //! [`Settings::encode`] gives a fixed [`ENCODED_LEN`]-byte image: a layout version byte,
 //! the fields little-endian in declaration order, and a CRC-32/ISO-HDLC of all bytes before
-//! it ([`crate::report::checksum`]). [`Settings::decode`] checks the version, the CRC and
+//! it ([`crate::checksum`]). [`Settings::decode`] checks the version, the CRC and
 //! every field's range, so a torn or stale image is refused and the device falls back to
 //! the other slot of the store or to [`Settings::DEFAULT`].
 //!
 //! Settings are kept with the same power-fail-safe A/B store as the calibration: they
 //! implement [`crate::store::Record`] (tag [`SETTINGS_TAG`], version 1), whose payload is
-//! the image above. The store adds its own header and CRC-32C; the image's inner CRC-32
+//! the image above. The store adds its own header and CRC; the image's inner CRC-32
 //! costs 4 bytes and keeps the image self-checking when used on its own. Give the settings
 //! their own store region, apart from the calibration's.
 //!
 //! Panic policy: nothing here panics.
 
-use crate::report::checksum;
+use crate::checksum;
 use crate::store::{CodecError, Record};
 
 /// The store record type tag of [`Settings`].

@@ -20,7 +20,7 @@
 //! Panic policy: no public function here panics; writers that accept zero bytes give an
 //! error instead of the panic in `embedded_io::Write::write_all`.
 
-pub mod checksum;
+pub use crate::checksum;
 pub mod cobs;
 pub mod frame;
 pub mod line;
