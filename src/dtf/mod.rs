@@ -47,13 +47,13 @@ mod transform;
 mod window;
 
 pub use fft::{forward_in_place, FFT_MAX, FFT_MIN};
-pub use loss::{AttenuationModel, LossCoefficients, NoLoss};
-pub use peaks::Fault;
+pub use loss::{sqrt_fast, AttenuationModel, LossCoefficients, NoLoss, SQRT_FAST_BOUND};
+pub use peaks::{Fault, FaultSearch};
 pub use transform::{
     scalar_transform_in_place, transform_in_place, DtfResponse, DtfSetup, ResponseKind,
     COMPENSATION_MAX_DB, SPEED_OF_LIGHT,
 };
-pub use window::{bessel_i0, Window, KAISER_BETA_MAX};
+pub use window::{bessel_i0, cos_turns, Window, COS_TURNS_BOUND, KAISER_BETA_MAX};
 
 /// Why a distance-to-fault transform cannot be made.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
