@@ -51,7 +51,7 @@ pub fn print(
     };
     write!(
         w,
-        "  {:<16}k1 {:.6} dB/m/sqrt(MHz)  k2 {:.8} dB/m/MHz",
+        "  {:<16}k1 {:.6e} dB/m/sqrt(MHz)  k2 {:.6e} dB/m/MHz",
         "fit",
         model.k1::<Meters>(),
         model.k2::<Meters>()
