@@ -158,8 +158,9 @@ pub fn transform_in_place<'a, L: AttenuationModel>(
     let (mut sum_w, mut sum_wa, mut sum_wa2) = (0.0f32, 0.0f32, 0.0f32);
     let f0 = setup.start.value();
     // The window is symmetric: compute w_k once for the pair (k, N − 1 − k).
+    let window = setup.window.prepare();
     for k in 0..points.div_ceil(2) {
-        let w = setup.window.coefficient(k, points);
+        let w = window.coefficient(k, points);
         let mirror = points - 1 - k;
         for idx in [k, mirror] {
             let x = buf.get_mut(idx).ok_or(DtfError::BadLength)?;
@@ -210,6 +211,7 @@ pub fn scalar_transform_in_place<'a, L>(
         sum_p += g * g;
     }
     let mean = sum_p / points as f32;
+    let window = setup.window.prepare();
     let mut sum_w = 0.0f32;
     for (k, x) in buf.iter_mut().enumerate() {
         if k >= points {
@@ -217,7 +219,7 @@ pub fn scalar_transform_in_place<'a, L>(
             continue;
         }
         let g = x.re.clamp(0.0, 1.0);
-        let w = setup.window.coefficient(k, points);
+        let w = window.coefficient(k, points);
         *x = Complex32::new((g * g - mean) * w, 0.0);
         sum_w += w;
     }

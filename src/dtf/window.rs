@@ -98,6 +98,44 @@ impl Window {
 
     /// w_k for point `k` of `n`, in 0..=1; 1 for n ≤ 1 and 0 for k ≥ n.
     pub fn coefficient(&self, k: usize, n: usize) -> f32 {
+        self.prepare().coefficient(k, n)
+    }
+
+    /// The window with its per-sweep constant (I0(β) for Kaiser) worked out once, for
+    /// evaluating many coefficients.
+    pub fn prepare(&self) -> PreparedWindow {
+        let (beta, inv_i0_beta) = match *self {
+            Window::Kaiser { beta } => {
+                let beta = if beta.is_finite() {
+                    beta.clamp(0.0, KAISER_BETA_MAX)
+                } else {
+                    0.0
+                };
+                // I0(β) ≥ 1, so the reciprocal is in (0, 1].
+                (beta, 1.0 / bessel_i0(beta))
+            }
+            _ => (0.0, 1.0),
+        };
+        PreparedWindow {
+            window: *self,
+            beta,
+            inv_i0_beta,
+        }
+    }
+}
+
+/// A [`Window`] ready for repeated evaluation (see [`Window::prepare`]).
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct PreparedWindow {
+    window: Window,
+    beta: f32,
+    inv_i0_beta: f32,
+}
+
+impl PreparedWindow {
+    /// w_k for point `k` of `n`, in 0..=1; 1 for n ≤ 1 and 0 for k ≥ n.
+    pub fn coefficient(&self, k: usize, n: usize) -> f32 {
         if k >= n {
             return 0.0;
         }
@@ -105,18 +143,13 @@ impl Window {
             return 1.0;
         }
         let x = k as f32 / (n - 1) as f32;
-        match *self {
+        match self.window {
             Window::Rectangular => 1.0,
             Window::Hann => (0.5 * (1.0 - cos_turns(x))).clamp(0.0, 1.0),
-            Window::Kaiser { beta } => {
-                let beta = if beta.is_finite() {
-                    beta.clamp(0.0, KAISER_BETA_MAX)
-                } else {
-                    0.0
-                };
+            Window::Kaiser { .. } => {
                 let u = 2.0 * x - 1.0;
-                let arg = beta * libm::sqrtf((1.0 - u * u).max(0.0));
-                (bessel_i0(arg) / bessel_i0(beta)).clamp(0.0, 1.0)
+                let arg = self.beta * crate::dtf::sqrt_fast((1.0 - u * u).max(0.0));
+                (bessel_i0(arg) * self.inv_i0_beta).clamp(0.0, 1.0)
             }
         }
     }
