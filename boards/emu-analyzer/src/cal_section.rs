@@ -163,7 +163,7 @@ fn print_section(
     let (lo, hi) = cal_range(s);
     writeln!(
         w,
-        "  {:<16}{} ({} from {} MHz to {} MHz and {} MHz), each from open, short and load",
+        "  {:<16}{} from {} MHz to {} MHz (a grid of {} and {} MHz), each from open, short, load",
         "cal points",
         table.len(),
         CAL_GRID,

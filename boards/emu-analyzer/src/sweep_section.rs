@@ -153,7 +153,7 @@ pub fn run(w: &mut impl Write, s: &Scenario, table: Option<&Table>) -> Result {
     let step = plan.linear_step().map_or(0.0, |h| h.value());
     writeln!(
         w,
-        "  {:<16}{} points, {} MHz to {} MHz, step {} kHz, linear",
+        "  {:<16}{} points, {} MHz to {} MHz, step {:.3} kHz, linear",
         "plan",
         plan.points(),
         s.sweep_start_mhz,
