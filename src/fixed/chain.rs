@@ -35,7 +35,7 @@
 //! [`FixedConfigError`].
 
 use super::exp2::{exp2_neg_q31, exp2_q16};
-use super::log2::{log2_q24, ONE_Q24};
+use super::log2::{log2_q24, log2_u16_q24, ONE_Q24};
 use super::q::{DbQ16, DbmQ16, GammaQ31, DB_CEILING_Q16, GAMMA_ONE_Q31};
 use super::relations::{
     db10_from_log2, neg_log2_one_minus_gamma_squared, vswr_from_log2, FixedReflection, K_DB_Q16,
@@ -360,8 +360,9 @@ impl LinearChain {
 fn linear_core(f: u32, r: u32) -> FixedReflection {
     // Each output is finished before the next logarithm, which keeps few values live (on
     // Armv6-M, fewer register spills). Every logarithm is of an exact integer < 2^32.
-    let lf = log2_q24(f);
-    let lr = log2_q24(r);
+    // f and r came from u16 codes: the casts are exact.
+    let lf = log2_u16_q24(f as u16);
+    let lr = log2_u16_q24(r as u16);
     // −log2|Γ| = log2 f − log2 r ∈ [0, 16] (log2_q24 is monotonic): RL ≤ 96.4 dB, below the
     // 100 dB cap, so no cap test is needed.
     let d = lf.wrapping_sub(lr).max(0) as u32;
@@ -414,15 +415,16 @@ impl SquareLawChain {
 /// 0 < r < f < 2^16.
 #[inline]
 fn square_core(f: u32, r: u32) -> FixedReflection {
-    let lf = log2_q24(f);
-    let lr = log2_q24(r);
+    // f and r came from u16 codes: the casts are exact.
+    let lf = log2_u16_q24(f as u16);
+    let lr = log2_u16_q24(r as u16);
     // −log2|Γ|² ∈ [0, 16]: RL ≤ 48.2 dB, below the cap.
     let d = lf.wrapping_sub(lr).max(0) as u32;
     let return_loss = DbQ16::from_bits(mul_u16_shr(d, K_DB_Q16, 22) as i32);
     // |Γ| = 2^(−d/2) < 1 because d > 0, so 2^31 + g < 2^32.
     let gamma = GammaQ31::from_bits(exp2_neg_q31(d >> 1));
     // −log2(1 − |Γ|²) = log2 f − log2(f − r) ∈ [0, 16]: ML ≤ 48.2 dB, below the cap.
-    let lm = log2_q24(f - r);
+    let lm = log2_u16_q24((f - r) as u16);
     let ml = lf.wrapping_sub(lm).max(0) as u32;
     let mismatch_loss = DbQ16::from_bits(mul_u16_shr(ml, K_DB_Q16, 22) as i32);
     let l1p = log2_q24(GAMMA_ONE_Q31.wrapping_add(gamma.to_bits())).wrapping_sub(THIRTY_ONE_Q24);

@@ -31,15 +31,16 @@
 //! | mismatch loss, whole range | ±[`ML_BOUND_DB`] = 0.005 dB | 2.7e-4 / 2.5e-4 / 2.5e-4 / 3.5e-4 / 1.4e-4 dB |
 //! | \|Γ\| | ±[`GAMMA_BOUND`] = 1e-4 | 4.1e-5 / 2.8e-5 / 1.5e-5 / 1.4e-5 / exact |
 //!
-//! Every output is also monotonic in the reflected reading, to the last bit (checked between
-//! every pair of neighbouring codes in the sweep, and by `host-tests/tests/fixed_props.rs`).
+//! Every output is also monotonic in the reflected reading, to the last bit (the sweep checks
+//! every pair of neighbouring reflected codes for its 25 dense forward codes and every step of
+//! its dBm differences; `host-tests/tests/fixed_props.rs` checks random pairs of every chain).
 //!
 //! Cost: tables of 260 + 260 + 16 bytes ([`log2::LOG2_TABLE_BYTES`],
 //! [`exp2::EXP2_TABLE_BYTES`]); per reading four logarithms, two exponentials and a few
 //! 16 × 16 multiplies ([`wide`]); no division, no 64-bit arithmetic and no floating point
 //! (`host-tests/tests/fixed_no_float.rs` checks the Cortex-M0 machine code). On Armv6-M
-//! (release, `opt-level = "s"`) `LinearChain::measure` runs 330–350 instructions for a
-//! valid reading and `SquareLawChain::measure` 320–335 (`host-tests/scripts/m0_instruction_count.py`;
+//! (release, `opt-level = "s"`) `LinearChain::measure` runs 300–350 instructions for a
+//! valid reading and `SquareLawChain::measure` 280–325 (`host-tests/scripts/m0_instruction_count.py`;
 //! about 40 of them per logarithm); a refused reading returns in about 20.
 //!
 //! Panic policy: nothing in this module panics and no value is NaN or infinite (there are
