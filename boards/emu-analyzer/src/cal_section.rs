@@ -166,9 +166,9 @@ fn print_section(
         "  {:<16}{} from {} MHz to {} MHz (a grid of {} and {} MHz), each from open, short, load",
         "cal points",
         table.len(),
-        CAL_GRID,
         lo * 1.0e-6,
         hi * 1.0e-6,
+        CAL_GRID,
         s.freq_mhz
     )?;
     let reloaded = match stored {
