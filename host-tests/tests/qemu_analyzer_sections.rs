@@ -392,10 +392,17 @@ fn check_cal(args: &[&str]) {
     let m = replay(&text);
     let c = CalCase::from(&m);
     let lines = section(&text, "calibration");
+    let flash = need(&lines, "flash");
+    assert!(flash.contains("reloaded: identical"), "{ctx}: {flash}");
+    // A second save cut halfway: the store reports it and the first record comes back.
+    let cut = need(&lines, "power cut");
     assert!(
-        need(&lines, "flash").contains("reloaded: identical"),
-        "{ctx}"
+        cut.contains("(save failed)") && cut.ends_with("loads: the previous calibration"),
+        "{ctx}: {cut}"
     );
+    let first = numbers(flash);
+    let after = numbers(cut);
+    assert_eq!(first.last(), after.get(1), "{ctx}: sequence after the cut");
     // Terms against the simulated bridge (printed 5 decimals, 3 of degree).
     let t = c.bridge.terms(c.f);
     for (label, truth) in [

@@ -67,21 +67,58 @@ pub fn calibrate(s: &Scenario) -> core::result::Result<Table, CalError> {
     Ok(table)
 }
 
-/// Saves `table` in a fresh RAM flash and loads it back: (bytes, slot, sequence, reloaded).
-pub fn save_and_reload(
-    table: &Table,
-) -> core::result::Result<(usize, Slot, u32, Table), &'static str> {
-    let mut store =
-        Store::new(RamFlash::<FLASH_BYTES>::new(), 0, SLOT_BYTES).map_err(|_| "layout refused")?;
+/// What the flash step did.
+pub struct Saved {
+    /// Encoded record length, bytes.
+    pub bytes: usize,
+    /// Where the first save went and its sequence number.
+    pub first: (Slot, u32),
+    /// Bytes programmed before the power cut of the second save.
+    pub cut_at: usize,
+    /// True when the second save reported its failure (power was cut).
+    pub second_failed: bool,
+    /// Slot and sequence loaded after power came back.
+    pub after_cut: (Slot, u32),
+    /// The table loaded after power came back.
+    pub table: Table,
+}
+
+/// Saves `table` in a fresh RAM flash and loads it back, then saves it again with the power
+/// cut halfway through the record and loads once more: the previous record must come back.
+pub fn save_and_reload(table: &Table) -> core::result::Result<Saved, &'static str> {
+    type Flash = RamFlash<FLASH_BYTES>;
+    let mut store = Store::new(Flash::new(), 0, SLOT_BYTES).map_err(|_| "layout refused")?;
     let mut buf = [0u8; 1024];
-    if buf.len() < Store::<RamFlash<FLASH_BYTES>>::buffer_len::<Table>() {
+    if buf.len() < Store::<Flash>::buffer_len::<Table>() {
         return Err("buffer too small");
     }
     store.save(table, &mut buf).map_err(|_| "save failed")?;
-    let loaded = store.load::<Table>(&mut buf).map_err(|_| "load failed")?;
+    let first = store.load::<Table>(&mut buf).map_err(|_| "load failed")?;
+    if first.record != *table {
+        return Err("the reloaded table differs");
+    }
     let mut enc = [0u8; <Table as Record>::MAX_ENCODED_LEN];
-    let n = table.encode(&mut enc).map_err(|_| "encode failed")?;
-    Ok((n, loaded.slot, loaded.sequence, loaded.record))
+    let bytes = table.encode(&mut enc).map_err(|_| "encode failed")?;
+    // Second save, power cut after half the record's bytes.
+    let mut flash = store.release();
+    let cut_at = bytes / 2;
+    flash.cut_after(cut_at);
+    let mut store = Store::new(flash, 0, SLOT_BYTES).map_err(|_| "layout refused")?;
+    let second_failed = store.save(table, &mut buf).is_err();
+    let mut flash = store.release();
+    flash.power_on();
+    let mut store = Store::new(flash, 0, SLOT_BYTES).map_err(|_| "layout refused")?;
+    let after = store
+        .load::<Table>(&mut buf)
+        .map_err(|_| "load after the cut failed")?;
+    Ok(Saved {
+        bytes,
+        first: (first.slot, first.sequence),
+        cut_at,
+        second_failed,
+        after_cut: (after.slot, after.sequence),
+        table: after.record,
+    })
 }
 
 fn polar(w: &mut impl Write, z: Complex32) -> Result {
@@ -126,12 +163,12 @@ pub fn run(w: &mut impl Write, s: &Scenario, print: bool) -> Option<Table> {
         let _ = print_section(w, s, &table, &stored);
     }
     match stored {
-        Some(Ok((_, _, _, t))) => Some(t),
+        Some(Ok(saved)) => Some(saved.table),
         _ => None,
     }
 }
 
-type Stored = Option<core::result::Result<(usize, Slot, u32, Table), &'static str>>;
+type Stored = Option<core::result::Result<Saved, &'static str>>;
 
 fn print_section(
     w: &mut impl Write,
@@ -172,14 +209,32 @@ fn print_section(
         s.freq_mhz
     )?;
     let reloaded = match stored {
-        Some(Ok((n, slot, seq, t))) => {
+        Some(Ok(saved)) => {
             writeln!(
                 w,
-                "  {:<16}record of {n} bytes saved to slot {slot:?} (sequence {seq}), reloaded: {}",
-                "flash",
-                if t == table { "identical" } else { "DIFFERENT" }
+                "  {:<16}record of {} bytes saved to slot {:?} (sequence {}), reloaded: identical",
+                "flash", saved.bytes, saved.first.0, saved.first.1
             )?;
-            t
+            writeln!(
+                w,
+                "  {:<16}second save cut after {} bytes ({}); after power-on slot {:?} \
+                 (sequence {}) loads: {}",
+                "power cut",
+                saved.cut_at,
+                if saved.second_failed {
+                    "save failed"
+                } else {
+                    "save did not notice"
+                },
+                saved.after_cut.0,
+                saved.after_cut.1,
+                if saved.after_cut == saved.first && saved.table == *table {
+                    "the previous calibration"
+                } else {
+                    "SOMETHING ELSE"
+                }
+            )?;
+            &saved.table
         }
         Some(Err(e)) => return writeln!(w, "  {:<16}{e}", "flash"),
         None => return Ok(()),

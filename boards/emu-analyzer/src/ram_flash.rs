@@ -13,12 +13,28 @@ use embedded_storage::nor_flash::{ErrorType, NorFlash, NorFlashErrorKind, ReadNo
 /// `N` bytes of RAM as a NOR flash with 4-byte write units and 1 KiB sectors.
 pub struct RamFlash<const N: usize> {
     mem: [u8; N],
+    /// Bytes that may still be programmed before the simulated power cut (`None`: no cut).
+    budget: Option<usize>,
 }
 
 impl<const N: usize> RamFlash<N> {
     /// An erased flash.
     pub const fn new() -> Self {
-        Self { mem: [0xFF; N] }
+        Self {
+            mem: [0xFF; N],
+            budget: None,
+        }
+    }
+
+    /// Simulates a power cut after `bytes` more bytes are programmed: the write that reaches
+    /// the limit stores only its first bytes and fails, as do all later ones.
+    pub fn cut_after(&mut self, bytes: usize) {
+        self.budget = Some(bytes);
+    }
+
+    /// Power back on: writes work again.
+    pub fn power_on(&mut self) {
+        self.budget = None;
     }
 
     fn range(
@@ -77,12 +93,21 @@ impl<const N: usize> NorFlash for RamFlash<N> {
 
     fn write(&mut self, offset: u32, bytes: &[u8]) -> Result<(), Self::Error> {
         let (a, b) = self.range(offset, bytes.len(), Self::WRITE_SIZE)?;
+        let allowed = self.budget.unwrap_or(usize::MAX);
         let dst = self
             .mem
             .get_mut(a..b)
             .ok_or(NorFlashErrorKind::OutOfBounds)?;
-        for (d, s) in dst.iter_mut().zip(bytes) {
+        let mut done = 0usize;
+        for (d, s) in dst.iter_mut().zip(bytes).take(allowed) {
             *d &= *s;
+            done += 1;
+        }
+        if let Some(left) = self.budget.as_mut() {
+            *left = left.saturating_sub(done);
+            if done < bytes.len() {
+                return Err(NorFlashErrorKind::Other);
+            }
         }
         Ok(())
     }
