@@ -220,6 +220,7 @@ mod proof {
         };
         let g = Complex32::new(input(0.3), input(-0.2));
         keep(gamma_from_db_phase(Db::new(input(-10.0)), input(45.0)));
+        keep(feedline::vector::display_angle_degrees(g));
         keep(gamma_from_iq(input(0.1), input(0.2)));
         keep(gamma_from_wave_ratio(
             g,
