@@ -13,6 +13,7 @@
 //! so this does not wait on the cargo lock of the `cargo test` that runs it).
 
 use feedline_host_tests::reference::bridge_sim::{Law, Load, Scenario, Truth};
+use feedline_host_tests::reference::emu_vector;
 use feedline_host_tests::reference::scalar;
 use std::collections::HashMap;
 use std::io::Read;
@@ -201,7 +202,14 @@ fn model(m: &HashMap<String, String>) -> Scenario {
         z0: f32v(m, "z0"),
         load,
         cable_m: f32v(m, "cable-m"),
-        cable_db100: f32v(m, "cable-db100"),
+        cable_db100: match m.get("cable") {
+            // A named cable: its invented datasheet fitted in f64, at the scenario frequency.
+            Some(name) => {
+                let fit = emu_vector::cable_fit(name).unwrap_or_else(|| panic!("cable {name}"));
+                100.0 * emu_vector::alpha_db_per_m(fit, f32v(m, "freq-mhz"))
+            }
+            None => f32v(m, "cable-db100"),
+        },
         vf: f32v(m, "vf"),
         freq_mhz: f32v(m, "freq-mhz"),
         directivity: f32v(m, "directivity"),

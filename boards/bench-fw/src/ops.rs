@@ -5,8 +5,10 @@
 
 use core::hint::black_box;
 use feedline::bridge::{BridgeSpec, Detector, ScalarChain};
+use feedline::calibration::OnePortTerms;
 use feedline::detector::Adc;
-use feedline::units::{Db, Volts};
+use feedline::units::{Db, Ohms, Volts};
+use num_complex::Complex32;
 
 /// Configuration every op may use, built once before the measurements from inputs the
 /// optimizer cannot see (a firmware builds these once at start-up too).
@@ -14,6 +16,9 @@ pub struct Ctx {
     /// 16-bit ADC, 3.3 V reference; linear detectors, 1 mV floor, 3.2 V ceiling, 40 dB
     /// directivity.
     pub chain: ScalarChain,
+    /// One-port error terms of an invented bridge (directivity 26 dB, source match 20 dB,
+    /// tracking −2 dB at 60°).
+    pub terms: OnePortTerms,
 }
 
 impl Ctx {
@@ -26,8 +31,15 @@ impl Ctx {
             Volts::new(black_box(3.2)),
             Db::new(black_box(40.0)),
         );
+        let terms = OnePortTerms::new(
+            Complex32::new(black_box(0.04), black_box(-0.03)),
+            Complex32::new(black_box(-0.06), black_box(0.08)),
+            Complex32::new(black_box(0.397), black_box(0.688)),
+        )
+        .ok()?;
         Some(Ctx {
             chain: ScalarChain::new(adc, spec),
+            terms,
         })
     }
 }
@@ -103,6 +115,20 @@ pub const OPS: &[Op] = &[
         run: core_gamma_reflection::<Ctx>,
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
+        quick: false,
+    },
+    Op {
+        name: "osl-correct",
+        run: osl_correct,
+        nominal: [0x3E99_999A, 0x3E4C_CCCD, 0, 0], // raw Γm = 0.3 + 0.2j
+        sweep: no_sweep,
+        quick: false,
+    },
+    Op {
+        name: "impedance",
+        run: impedance,
+        nominal: [0x3E99_999A, 0x3E4C_CCCD, 0, 0], // Γ = 0.3 + 0.2j
+        sweep: no_sweep,
         quick: false,
     },
 ];
@@ -211,4 +237,31 @@ pub fn core_directivity_bounds<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
         b.vswr_low.value().to_bits(),
         b.vswr_high.value().to_bits(),
     ]
+}
+
+/// `OnePortTerms::correct` (src/calibration/terms.rs): one raw Γm → corrected Γ with the
+/// context's error terms. In: Γm re, im (f32 bits). Out: Γ re, im, and 0 or `0x100 + error`.
+#[inline(never)]
+pub fn osl_correct(ctx: &Ctx, x: [u32; 4]) -> [u32; 4] {
+    let m = Complex32::new(f32::from_bits(x[0]), f32::from_bits(x[1]));
+    match ctx.terms.correct(m) {
+        Ok(g) => [g.re.to_bits(), g.im.to_bits(), 0, 0],
+        Err(e) => [REFUSED, REFUSED, 0x100 + e as u32, 0],
+    }
+}
+
+/// `Impedance::from_gamma` at Z0 = 50 Ω (src/vector/impedance.rs). In: Γ re, im (f32 bits).
+/// Out: R, X (f32 bits), capped flag, or `0x100 + error`.
+#[inline(never)]
+pub fn impedance<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    let g = Complex32::new(f32::from_bits(x[0]), f32::from_bits(x[1]));
+    match feedline::vector::Impedance::from_gamma(g, Ohms::new(50.0)) {
+        Ok(z) => [
+            z.resistance().value().to_bits(),
+            z.reactance().value().to_bits(),
+            u32::from(z.is_capped()),
+            0,
+        ],
+        Err(e) => [REFUSED, REFUSED, 0x100 + e as u32, 0],
+    }
 }

@@ -2,7 +2,7 @@
 
 use crate::frontend::{Load, SimFrontEnd};
 use crate::report;
-use crate::scenario::{LawKind, Scenario};
+use crate::scenario::{LawKind, Scenario, Section};
 use cortex_m_rt::entry;
 use emu_support::{args, semihost, Console};
 use feedline::bridge::{BridgeAdc, BridgeSpec, Detector, Fault, Measurement, RawPair, ScalarChain};
@@ -124,8 +124,24 @@ fn main() -> ! {
     };
     let _ = report::title(&mut uart);
     let _ = report::scenario(&mut uart, &s);
-    section_reading(&mut uart, &s, &chain);
-    section_cable_check(&mut uart, &s, &chain);
+    if s.has(Section::Reading) {
+        section_reading(&mut uart, &s, &chain);
+    }
+    if s.has(Section::Cable) {
+        section_cable_check(&mut uart, &s, &chain);
+    }
+    if s.has(Section::Line) {
+        let (_, result) = measure(&s, &chain, s.load, 0);
+        let _ = crate::line_section::print(&mut uart, &s, &result);
+    }
+    let table = if s.has(Section::Cal) || s.has(Section::Sweep) {
+        crate::cal_section::run(&mut uart, &s, s.has(Section::Cal))
+    } else {
+        None
+    };
+    if s.has(Section::Sweep) {
+        let _ = crate::sweep_section::run(&mut uart, &s, table.as_ref());
+    }
     let _ = report::simulation(&mut uart, &s);
     let _ = report::end(&mut uart);
     semihost::exit(0)

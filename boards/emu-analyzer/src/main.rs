@@ -12,13 +12,25 @@
 #![cfg_attr(target_os = "none", no_main)]
 
 #[cfg(target_os = "none")]
+mod cable_types;
+#[cfg(target_os = "none")]
+mod cal_section;
+#[cfg(target_os = "none")]
 mod firmware;
 #[cfg(target_os = "none")]
 mod frontend;
 #[cfg(target_os = "none")]
+mod line_section;
+#[cfg(target_os = "none")]
+mod ram_flash;
+#[cfg(target_os = "none")]
 mod report;
 #[cfg(target_os = "none")]
 mod scenario;
+#[cfg(target_os = "none")]
+mod sweep_section;
+#[cfg(target_os = "none")]
+mod vector_sim;
 
 #[cfg(not(target_os = "none"))]
 fn main() {

@@ -21,6 +21,9 @@
 fn main() {}
 
 #[cfg(target_os = "none")]
+mod proto;
+
+#[cfg(target_os = "none")]
 mod proof {
     use core::hint::black_box as input;
     use feedline::bridge::{self, BridgeAdc, BridgeSpec, Detector, Quality, RawPair, ScalarChain};
@@ -29,8 +32,9 @@ mod proof {
     use feedline::reflection::{Gamma, Vswr};
     use feedline::uncertainty;
     use feedline::units::{
-        Db, Dbm, Hertz, Meters, Np, Ohms, PowerRatio, VoltageRatio, Volts, Watts,
+        Db, Dbm, Hertz, Meters, Np, Ohms, PowerRatio, Seconds, VoltageRatio, Volts, Watts,
     };
+    use num_complex::Complex32;
 
     /// Keeps a result alive: the optimizer must assume it is read.
     fn keep<T>(x: T) {
@@ -212,6 +216,423 @@ mod proof {
         keep(q.bits());
     }
 
+    fn prove_vector() {
+        use feedline::vector::{
+            gamma_from_db_phase, gamma_from_iq, gamma_from_wave_ratio, resolve_phase_sign,
+            Admittance, Impedance, PhaseSign, PhaseSignConfig,
+        };
+        let g = Complex32::new(input(0.3), input(-0.2));
+        keep(gamma_from_db_phase(Db::new(input(-10.0)), input(45.0)));
+        keep(feedline::vector::display_angle_degrees(g));
+        keep(gamma_from_iq(input(0.1), input(0.2)));
+        keep(gamma_from_wave_ratio(
+            g,
+            Complex32::new(input(1.0), input(0.0)),
+        ));
+        if let Ok(z) = Impedance::from_gamma(g, Ohms::new(input(50.0))) {
+            keep(z.gamma());
+            keep(z.is_capped());
+            keep(z.reference());
+            keep(z.complex());
+            keep(z.normalized());
+            keep(z.resistance());
+            keep(z.reactance());
+            keep(z.magnitude());
+            keep(z.angle_deg());
+            keep(z.parallel());
+            keep(z.series_element(Hertz::new(input(1.0e6))));
+            keep(z.parallel_element(Hertz::new(input(1.0e6))));
+            keep(z.q());
+            let y = z.admittance();
+            keep(y.is_capped());
+            keep(y.complex());
+            keep(y.normalized());
+            keep(y.conductance());
+            keep(y.susceptance());
+            keep(y.magnitude());
+            keep(y.impedance());
+            keep(y.parallel());
+            keep(y.element(Hertz::new(input(1.0e6))));
+        }
+        keep(Impedance::new(
+            Ohms::new(input(25.0)),
+            Ohms::new(input(30.0)),
+            Ohms::new(input(50.0)),
+        ));
+        keep(Admittance::from_gamma(g, Ohms::new(input(50.0))));
+        let sign = resolve_phase_sign(
+            Hertz::new(input(1.0e6)),
+            g,
+            Hertz::new(input(1.01e6)),
+            Complex32::new(input(0.31), input(0.2)),
+            Ohms::new(input(50.0)),
+            &input(PhaseSignConfig::default()),
+        );
+        if let Ok(s) = sign {
+            keep(s.apply(g));
+        }
+        keep(input(PhaseSign::Positive).apply(g));
+    }
+
+    fn prove_calibration() {
+        use feedline::calibration::{
+            CalTable, LoadStandard, OnePortTerms, OpenStandard, ResponseCal, ShortStandard,
+            StandardsModel,
+        };
+        use feedline::store::Record;
+        let c = |a: f32, b: f32| Complex32::new(input(a), input(b));
+        let model = input(StandardsModel {
+            open: OpenStandard {
+                capacitance: [input(40.0), input(1.0), input(0.1), input(0.01)],
+                delay: Seconds::new(input(20.0e-12)),
+            },
+            short: ShortStandard {
+                inductance: [input(10.0), input(1.0), input(0.1), input(0.01)],
+                delay: Seconds::new(input(20.0e-12)),
+            },
+            load: LoadStandard {
+                gamma: c(0.01, 0.0),
+            },
+            z0: Ohms::new(input(50.0)),
+        });
+        keep(StandardsModel::ideal(Ohms::new(input(50.0))).gammas_at(Hertz::new(input(1.0e6))));
+        keep(model.gammas_at(Hertz::new(input(1.0e9))));
+        let terms = OnePortTerms::from_standards(
+            c(0.9, 0.1),
+            c(-0.8, 0.0),
+            c(0.05, 0.01),
+            &model,
+            Hertz::new(input(1.0e6)),
+        );
+        keep(OnePortTerms::from_known(
+            [c(1.0, 0.0), c(-1.0, 0.0), c(0.0, 0.0)],
+            [c(0.9, 0.1), c(-0.8, 0.0), c(0.05, 0.01)],
+        ));
+        if let Ok(t) = terms {
+            keep(t.directivity());
+            keep(t.source_match());
+            keep(t.tracking());
+            keep(t.correct(c(0.3, 0.3)));
+            keep(t.distort(c(0.3, 0.3)));
+            keep(t.lerp(&OnePortTerms::IDENTITY, input(0.5)));
+        }
+        keep(OnePortTerms::new(c(0.01, 0.0), c(0.02, 0.0), c(0.9, 0.0)));
+        let mut table = CalTable::<32>::new();
+        keep(table.insert(Hertz::new(input(2.0e6)), input(OnePortTerms::IDENTITY)));
+        keep(table.calibrate_point(
+            Hertz::new(input(1.0e6)),
+            c(0.9, 0.1),
+            c(-0.8, 0.0),
+            c(0.05, 0.01),
+            &model,
+        ));
+        keep(table.terms_at(Hertz::new(input(1.5e6))));
+        keep(table.correct(Hertz::new(input(1.5e6)), c(0.2, 0.1)));
+        keep(table.range());
+        keep(table.len());
+        keep(table.is_empty());
+        keep(table.capacity());
+        keep(table.points().len());
+        let mut bytes = [0u8; 4 + 28 * 32];
+        keep(table.encode(&mut bytes));
+        keep(CalTable::<32>::decode(input(1), &input(bytes)).map(|t| t.len()));
+        table.clear();
+        if let Ok(r) = ResponseCal::from_open_short(
+            VoltageRatio::new(input(0.84)),
+            VoltageRatio::new(input(0.76)),
+        ) {
+            keep(r.tracking());
+            keep(r.correct(VoltageRatio::new(input(0.4))));
+        }
+    }
+
+    /// A flash whose contents and results the optimizer cannot see.
+    struct OpaqueFlash;
+
+    impl embedded_storage::nor_flash::ErrorType for OpaqueFlash {
+        type Error = embedded_storage::nor_flash::NorFlashErrorKind;
+    }
+
+    impl embedded_storage::nor_flash::ReadNorFlash for OpaqueFlash {
+        const READ_SIZE: usize = 1;
+        fn read(&mut self, _offset: u32, bytes: &mut [u8]) -> Result<(), Self::Error> {
+            for b in bytes.iter_mut() {
+                *b = input(0xFF);
+            }
+            input(Ok(()))
+        }
+        fn capacity(&self) -> usize {
+            input(65_536)
+        }
+    }
+
+    impl embedded_storage::nor_flash::NorFlash for OpaqueFlash {
+        const WRITE_SIZE: usize = 4;
+        const ERASE_SIZE: usize = 4096;
+        fn erase(&mut self, from: u32, to: u32) -> Result<(), Self::Error> {
+            keep((from, to));
+            input(Ok(()))
+        }
+        fn write(&mut self, offset: u32, bytes: &[u8]) -> Result<(), Self::Error> {
+            keep((offset, bytes.len()));
+            input(Ok(()))
+        }
+    }
+
+    fn prove_store() {
+        use feedline::calibration::CalTable;
+        use feedline::store::{ByteReader, ByteWriter, Store};
+        let mut buf = [0u8; 1024];
+        if let Ok(mut store) = Store::new(OpaqueFlash, input(0), input(8192)) {
+            let table = input(CalTable::<16>::new());
+            keep(store.save(&table, &mut buf));
+            keep(store.load::<CalTable<16>>(&mut buf).map(|l| l.sequence));
+            keep(store.erase());
+            keep(Store::<OpaqueFlash>::buffer_len::<CalTable<16>>());
+            keep(store.release());
+        }
+        let mut w = ByteWriter::new(&mut buf);
+        keep(w.put_u8(input(1)));
+        keep(w.put_u16(input(2)));
+        keep(w.put_u32(input(3)));
+        keep(w.put_f32(input(4.0)));
+        keep(w.put_bytes(&input([5u8; 3])));
+        keep(w.position());
+        let mut r = ByteReader::new(&buf);
+        keep(r.get_u8());
+        keep(r.get_u16());
+        keep(r.get_u32());
+        keep(r.get_finite_f32());
+        keep(r.remaining());
+        keep(r.finish());
+    }
+
+    /// A protection pin whose writes fail when the optimizer cannot tell.
+    struct ProofPin;
+    impl embedded_hal::digital::ErrorType for ProofPin {
+        type Error = embedded_hal::digital::ErrorKind;
+    }
+    impl embedded_hal::digital::OutputPin for ProofPin {
+        fn set_low(&mut self) -> Result<(), Self::Error> {
+            if input(false) {
+                Err(embedded_hal::digital::ErrorKind::Other)
+            } else {
+                Ok(())
+            }
+        }
+        fn set_high(&mut self) -> Result<(), Self::Error> {
+            self.set_low()
+        }
+    }
+
+    /// A stand-in chain whose figures come straight from the inputs, so the monitor's state
+    /// machine sees every VSWR; `PowerChain` is proven beside it.
+    struct ProofChain;
+    impl feedline::monitor::LineMath for ProofChain {
+        fn figures(&self, r: feedline::monitor::PowerReading) -> feedline::monitor::LineFigures {
+            feedline::monitor::LineFigures {
+                vswr: feedline::fixed::VswrQ16::from_bits(input(r.forward_uw)),
+                return_loss: feedline::fixed::DbQ16::from_bits(input(r.reflected_uw as i32)),
+            }
+        }
+    }
+
+    fn prove_monitor() {
+        use feedline::monitor::{
+            Averager, LineMath, Monitor, MonitorConfig, PinSense, PowerReading, Protection,
+            SwrAlarm,
+        };
+        let reading = PowerReading::new(input(100_000_000), input(4_000_000));
+        keep(reading.delivered_uw());
+        let config = MonitorConfig {
+            hold_off: input(3),
+            clear_count: input(5),
+            averaging: input(8),
+            report_every: input(10),
+            latched: input(false),
+            gate_uw: input(1_000),
+            ..MonitorConfig::DEFAULT
+        };
+        keep(config.validate(input(16)));
+        let mut alarm = SwrAlarm::new();
+        keep(alarm.update(
+            &config,
+            input(true),
+            input(ProofChain.figures(reading).vswr),
+        ));
+        keep(alarm.state());
+        keep(alarm.reset());
+        let mut avg: Averager<16> = Averager::new(input(8));
+        avg.push(reading);
+        keep(avg.mean());
+        keep(avg.len());
+        avg.clear();
+        let mut prot = Protection::new(ProofPin, input(PinSense::PermitHigh));
+        keep(prot.drive(input(feedline::monitor::AlarmState::Tripped)));
+        keep(prot.error_count());
+        if let Ok(mut m) =
+            Monitor::<_, _, 16>::new(config, ProofChain, ProofPin, input(PinSense::PermitLow))
+        {
+            for _ in 0..input(3) {
+                keep(m.update(input(reading)));
+            }
+            keep(m.report_now());
+            keep(m.reset_alarm());
+            keep(m.alarm_state());
+            keep(m.protection().error_count());
+            keep(m.config().hold_off);
+        }
+        keep(feedline::monitor::PowerChain.figures(input(reading)));
+        if let Ok(mut m) = Monitor::<_, _, 16>::new(
+            config,
+            feedline::monitor::PowerChain,
+            ProofPin,
+            input(PinSense::PermitHigh),
+        ) {
+            keep(m.update(input(reading)));
+        }
+    }
+
+    fn prove_line() {
+        use feedline::line::Complex32;
+        use feedline::line::{
+            feed_loss, fixed as lfixed, geometry, CoaxGeometry, Dielectric, Line, LineConstants,
+            LossModel, LossPoint, TwoWireGeometry,
+        };
+        use feedline::units::{Celsius, DbPer, Feet};
+        let k = LineConstants::per_meter(input(0.1), input(2.5e-7), input(1e-6), input(1e-10));
+        let f = Hertz::new(input(14.0e6));
+        keep(LineConstants::per::<Feet>(
+            input(0.03),
+            input(7.7e-8),
+            input(0.0),
+            input(3.08e-11),
+        ));
+        keep(k.values_per::<Feet>());
+        keep(k.resistance_per::<Feet>());
+        keep(k.low_loss(f));
+        keep(k.approximation_error(f));
+        if let Ok(e) = k.approximation_error(f) {
+            keep(e.worst());
+        }
+        let z = Complex32::new(input(30.0), input(-12.0));
+        let g = Complex32::new(input(0.3), input(0.1));
+        let len = Meters::new(input(12.0));
+        let lines = [
+            k.at(f),
+            Line::new::<Meters>(f, z, g),
+            Line::from_datasheet(
+                f,
+                Ohms::new(input(50.0)),
+                input(0.66),
+                DbPer::<Feet>::new(input(0.02)),
+            ),
+        ];
+        for line in lines.into_iter().flatten() {
+            keep(line.characteristic_impedance());
+            keep(line.propagation_constant::<Feet>());
+            keep(line.attenuation::<Feet>());
+            keep(line.attenuation_np::<Meters>());
+            keep(line.phase_constant::<Meters>());
+            keep(line.phase_velocity());
+            keep(line.velocity_factor());
+            keep(line.wavelength::<Feet>());
+            keep(line.delay::<Meters>());
+            keep(line.matched_loss(Feet::new(input(100.0))));
+            keep(line.load_reflection(z));
+            keep(line.gamma_at_input(g, len));
+            keep(line.gamma_at_load(g, len));
+            keep(line.input_impedance(z, len));
+            keep(line.input_impedance_from_gamma(g, len));
+            keep(line.embed(g, len, Ohms::new(input(50.0))));
+            keep(line.deembed(g, len, Ohms::new(input(50.0))));
+            keep(line.feed_report(len, Gamma::saturating(input(0.2)).vswr()));
+        }
+        let diel = Dielectric {
+            relative_permittivity: input(2.25),
+            loss_tangent: input(2e-4),
+        };
+        let c = CoaxGeometry::new(
+            Meters::new(input(0.9e-3)),
+            Meters::new(input(2.95e-3)),
+            diel,
+        )
+        .with_conductivity(input(5.8e7));
+        keep(c.characteristic_impedance());
+        keep(c.velocity_factor());
+        keep(c.lossless_constants());
+        keep(c.constants_at(f));
+        keep(c.line_at(f));
+        keep(c.skin_effect_holds(f));
+        let t = TwoWireGeometry::new(Meters::new(input(1.0e-3)), Meters::new(input(8.0e-3)), diel)
+            .with_conductivity(input(5.8e7));
+        keep(t.characteristic_impedance());
+        keep(t.velocity_factor());
+        keep(t.lossless_constants());
+        keep(t.constants_at(f));
+        keep(t.line_at(f));
+        keep(t.skin_effect_holds(f));
+        keep(diel.velocity_factor());
+        keep(geometry::skin_depth(f, input(5.8e7)));
+        keep(geometry::surface_resistance(f, input(5.8e7)));
+
+        let pts = input([
+            LossPoint::new(Hertz::new(10e6), DbPer::<Feet>::new(0.012)),
+            LossPoint::new(Hertz::new(100e6), DbPer::<Feet>::new(0.04)),
+            LossPoint::new(Hertz::new(1e9), DbPer::<Feet>::new(0.14)),
+        ]);
+        keep(LossPoint::from_loss(
+            f,
+            Db::new(input(2.0)),
+            Feet::new(input(100.0)),
+        ));
+        let models = [
+            LossModel::least_squares(&pts),
+            LossModel::from_two_points(&pts[0], &pts[2]),
+            LossModel::new::<Feet>(input(0.004), input(2e-5)),
+        ];
+        for m in models.into_iter().flatten() {
+            keep(m.k1::<Feet>());
+            keep(m.k2::<Meters>());
+            keep(m.attenuation::<Feet>(f));
+            keep(m.conductor_part::<Meters>(f));
+            keep(m.loss(f, len));
+            keep(m.at_temperature(
+                Celsius::new(input(20.0)),
+                Celsius::new(input(45.0)),
+                input(0.0039),
+            ));
+            keep(m.worst_relative_error(&pts));
+            keep(m.line_at(f, Ohms::new(input(50.0)), input(0.66)));
+            keep(m.feed_report(f, len, Gamma::MATCHED.vswr()));
+        }
+
+        let ml = Db::new(input(2.0));
+        let gm = Gamma::saturating(input(0.4));
+        let vs = gm.vswr();
+        keep(feed_loss::gamma_at_load(gm, ml));
+        keep(feed_loss::gamma_at_input(gm, ml));
+        keep(feed_loss::swr_at_load(vs, ml));
+        keep(feed_loss::swr_at_input(vs, ml));
+        keep(feed_loss::return_loss_at_load(Db::new(input(12.0)), ml));
+        keep(feed_loss::total_loss(ml, gm));
+        keep(feed_loss::additional_loss(ml, gm));
+        keep(feed_loss::power_at_load(Watts::new(input(100.0)), ml, gm));
+        keep(feed_loss::feed_report(ml, vs));
+
+        let a = feedline::fixed::DbQ16::from_bits(input(7 << 16));
+        let b = feedline::fixed::DbQ16::from_bits(input(1 << 16));
+        let s = feedline::fixed::VswrQ16::from_bits(input(3 << 16));
+        keep(lfixed::matched_loss_from_open_short(a));
+        keep(lfixed::swr_to_return_loss(s));
+        keep(lfixed::return_loss_to_swr(a));
+        keep(lfixed::return_loss_at_load(a, b));
+        keep(lfixed::swr_at_load(s, b));
+        keep(lfixed::swr_at_input(s, b));
+        keep(lfixed::total_loss_from_return_loss(b, a));
+        keep(lfixed::total_loss(b, s));
+    }
+
     #[cortex_m_rt::entry]
     fn main() -> ! {
         prove_units();
@@ -220,6 +641,13 @@ mod proof {
         prove_cable();
         prove_detector();
         prove_bridge();
+        prove_vector();
+        prove_calibration();
+        prove_store();
+        prove_monitor();
+        prove_line();
+        crate::proto::prove_report();
+        crate::proto::prove_command();
         #[cfg(feature = "canary")]
         {
             let table = input([1u8; 4]);

@@ -319,6 +319,8 @@ fn step_qemu() -> Step {
         "feedline-host-tests",
         "--test",
         "qemu_analyzer",
+        "--test",
+        "qemu_analyzer_sections",
         "--",
         "--nocapture",
     ]);
