@@ -1059,7 +1059,10 @@ fn main() -> ExitCode {
             core.label(),
             core.triple()
         );
-        let exes = build("bench-fw", core, &target_dir)
+        // The quick smoke builds the benchmark binary only (each footprint binary is one more
+        // LTO link).
+        let only_main: &[&str] = if quick { &["--bin", "bench-fw"] } else { &[] };
+        let exes = build_with("bench-fw", core, &target_dir, only_main)
             .unwrap_or_else(|e| fail(format!("building bench-fw for {}:\n{e}", core.triple())));
         let exe = |name: &str| {
             exes.iter()
@@ -1074,6 +1077,9 @@ fn main() -> ExitCode {
             Ok((e.flash(), e.ram()))
         };
         bench_sizes[ci] = size_of("bench-fw");
+        if quick {
+            continue;
+        }
         base[ci] = size_of("size-base").unwrap_or_else(|e| fail(e));
         for (bin, _) in SIZE_BINS {
             let r = size_of(bin)
@@ -1084,10 +1090,12 @@ fn main() -> ExitCode {
         }
     }
 
-    footprints.push(Footprint {
-        label: "bare board (UART, exit, panic handler): size-base".to_string(),
-        sizes: [Ok(base[0]), Ok(base[1])],
-    });
+    if !quick {
+        footprints.push(Footprint {
+            label: "bare board (UART, exit, panic handler): size-base".to_string(),
+            sizes: [Ok(base[0]), Ok(base[1])],
+        });
+    }
     for (bin, label) in SIZE_BINS {
         if let Some(sizes) = bin_sizes.remove(bin) {
             footprints.push(Footprint {
