@@ -44,7 +44,15 @@ pub struct Op {
     pub sweep: fn(u32) -> Option<[u32; 4]>,
     /// Part of the `--quick` smoke run.
     pub quick: bool,
+    /// Runs before each measured call, outside the counted region and the stack measurement:
+    /// fills the buffers an array operation works on (keep them in a `static`
+    /// `cortex_m::interrupt::Mutex<RefCell<…>>` shared by `prepare` and `run`). [`no_prepare`]
+    /// for scalar ops.
+    pub prepare: fn(&Ctx, [u32; 4]),
 }
+
+/// The `prepare` of an op that needs none.
+pub fn no_prepare(_ctx: &Ctx, _input: [u32; 4]) {}
 
 /// Every operation, in run order. The first, `empty`, measures the call overhead the host
 /// subtracts from the others.
@@ -55,6 +63,7 @@ pub const OPS: &[Op] = &[
         nominal: [0; 4],
         sweep: no_sweep,
         quick: true,
+        prepare: no_prepare,
     },
     Op {
         name: "naive-libm",
@@ -62,6 +71,7 @@ pub const OPS: &[Op] = &[
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: true,
+        prepare: no_prepare,
     },
     Op {
         name: "naive-micromath",
@@ -69,6 +79,7 @@ pub const OPS: &[Op] = &[
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: true,
+        prepare: no_prepare,
     },
     Op {
         name: "chain-f32",
@@ -76,6 +87,7 @@ pub const OPS: &[Op] = &[
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: true,
+        prepare: no_prepare,
     },
     Op {
         name: "libm-log10f",
@@ -83,6 +95,7 @@ pub const OPS: &[Op] = &[
         nominal: [0x3DCC_CCCD, 0, 0, 0], // 0.1
         sweep: no_sweep,
         quick: false,
+        prepare: no_prepare,
     },
     Op {
         name: "core-gamma-from-rl",
@@ -90,6 +103,7 @@ pub const OPS: &[Op] = &[
         nominal: [0x41A0_0000, 0, 0, 0], // 20.0 dB
         sweep: no_sweep,
         quick: false,
+        prepare: no_prepare,
     },
     Op {
         name: "core-directivity-bounds",
@@ -97,6 +111,7 @@ pub const OPS: &[Op] = &[
         nominal: [0x3DCC_CCCD, 0x4220_0000, 0, 0], // |Γ| 0.1, 40 dB
         sweep: no_sweep,
         quick: false,
+        prepare: no_prepare,
     },
     Op {
         name: "core-gamma-reflection",
@@ -104,6 +119,7 @@ pub const OPS: &[Op] = &[
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: false,
+        prepare: no_prepare,
     },
 ];
 

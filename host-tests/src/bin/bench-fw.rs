@@ -624,6 +624,8 @@ struct CoreResult {
     overhead: u64,
     /// Stack bytes per op.
     stack: BTreeMap<String, u32>,
+    /// Ops the firmware has but skipped (`--quick`).
+    skipped: Vec<String>,
     /// Sweep points per op: (inputs, outputs).
     sweeps: BTreeMap<String, Vec<Point>>,
 }
@@ -676,7 +678,14 @@ fn measure(
             counts.len()
         ));
     }
-    let mut res = CoreResult::default();
+    let mut res = CoreResult {
+        skipped: text
+            .lines()
+            .filter_map(|l| l.strip_prefix("N "))
+            .map(|n| n.trim().to_string())
+            .collect(),
+        ..CoreResult::default()
+    };
     let overhead = names
         .iter()
         .zip(&counts)
@@ -892,6 +901,19 @@ fn report(
     for row in ROWS {
         let m0 = get(Core::M0, row.id);
         let m4f = get(Core::M4f, row.id);
+        if m0.is_none()
+            && m4f.is_none()
+            && refs
+                .iter()
+                .any(|(_, r)| r.skipped.iter().any(|n| n == row.id))
+        {
+            let _ = writeln!(
+                s,
+                "| {} | not run (--quick) | not run (--quick) | — | {} | — |",
+                row.label, row.target.text
+            );
+            continue;
+        }
         if m0.is_none() && m4f.is_none() {
             let _ = writeln!(
                 s,
