@@ -23,9 +23,22 @@
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]
 
+pub mod analysis;
 pub mod bridge;
 pub mod cable;
+pub mod calibration;
+pub mod command;
 pub mod detector;
+pub mod dtf;
+pub mod fixed;
+pub mod line;
+pub mod monitor;
+pub mod plot;
 pub mod reflection;
+pub mod report;
+pub mod store;
+pub mod sweep;
+pub mod touchstone;
 pub mod uncertainty;
 pub mod units;
+pub mod vector;

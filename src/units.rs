@@ -17,6 +17,9 @@
 //! | [`Watts`] | power | |
 //! | [`Volts`] | detector output, ADC reference | |
 //! | [`Dbm`] | absolute power, dB relative to 1 mW | `Dbm - Dbm = Db`, `Dbm + Db = Dbm` |
+//! | [`Henries`], [`Farads`] | inductance, capacitance | equivalent L or C of a reactance |
+//! | [`Siemens`] | conductance or susceptance | |
+//! | [`Seconds`] | time, e.g. an offset delay | |
 //!
 //! Panic policy: nothing in this module panics.
 
@@ -291,6 +294,185 @@ impl Hertz {
     }
 }
 
+// ---- Lengths in any unit, and quantities per unit length (transmission lines) ----
+
+scalar_unit!(
+    /// A length in feet (the international foot, exactly 0.3048 m).
+    Feet,
+    "ft"
+);
+scalar_unit!(
+    /// A temperature in degrees Celsius.
+    Celsius,
+    "°C"
+);
+scalar_unit!(
+    /// A speed in metres per second.
+    MetersPerSecond,
+    "m/s"
+);
+
+mod sealed {
+    pub trait Sealed {}
+    impl Sealed for super::Meters {}
+    impl Sealed for super::Feet {}
+}
+
+/// A length unit, as a type: [`Meters`] or [`Feet`].
+///
+/// The trait is sealed: the transmission-line APIs prove that no conversion overflows from
+/// the known unit factors, so new units are added here, not downstream.
+pub trait Length: sealed::Sealed + Copy + Clone + core::fmt::Debug + PartialEq + Default {
+    /// Metres in one of this unit.
+    const METERS: f32;
+    /// The unit's symbol, e.g. `"m"`.
+    const SYMBOL: &'static str;
+    /// The number of units held.
+    fn amount(self) -> f32;
+    /// A length of `amount` units.
+    fn of(amount: f32) -> Self;
+    /// The length in metres.
+    #[inline]
+    fn to_meters(self) -> Meters {
+        Meters::new(self.amount() * Self::METERS)
+    }
+    /// This unit's length equal to a length in metres.
+    #[inline]
+    fn from_meters(m: Meters) -> Self {
+        Self::of(m.value() / Self::METERS)
+    }
+}
+
+impl Length for Meters {
+    const METERS: f32 = 1.0;
+    const SYMBOL: &'static str = "m";
+    #[inline]
+    fn amount(self) -> f32 {
+        self.0
+    }
+    #[inline]
+    fn of(amount: f32) -> Self {
+        Meters(amount)
+    }
+}
+
+impl Length for Feet {
+    const METERS: f32 = 0.3048;
+    const SYMBOL: &'static str = "ft";
+    #[inline]
+    fn amount(self) -> f32 {
+        self.0
+    }
+    #[inline]
+    fn of(amount: f32) -> Self {
+        Feet(amount)
+    }
+}
+
+impl From<Feet> for Meters {
+    #[inline]
+    fn from(f: Feet) -> Meters {
+        f.to_meters()
+    }
+}
+
+impl From<Meters> for Feet {
+    #[inline]
+    fn from(m: Meters) -> Feet {
+        Feet::from_meters(m)
+    }
+}
+
+macro_rules! per_length {
+    ($(#[$doc:meta])* $name:ident, $unit:literal) => {
+        $(#[$doc])*
+        ///
+        /// The length unit is the type parameter `L` (per foot with `L = Feet`).
+        #[derive(Clone, Copy, Debug, PartialEq, PartialOrd, Default)]
+        #[cfg_attr(feature = "defmt", derive(defmt::Format))]
+        pub struct $name<L: Length>(f32, core::marker::PhantomData<L>);
+
+        impl<L: Length> $name<L> {
+            #[doc = concat!("A value in ", $unit, " per one length unit `L`.")]
+            #[inline]
+            pub const fn new(value: f32) -> Self {
+                Self(value, core::marker::PhantomData)
+            }
+
+            #[doc = concat!("The value in ", $unit, " per one length unit `L`.")]
+            #[inline]
+            pub const fn value(self) -> f32 {
+                self.0
+            }
+
+            /// True when the value is neither NaN nor infinite.
+            #[inline]
+            pub fn is_finite(self) -> bool {
+                self.0.is_finite()
+            }
+
+            /// The same quantity per another length unit (e.g. per metre to per foot).
+            #[inline]
+            pub fn per<M: Length>(self) -> $name<M> {
+                $name::new(self.0 * (M::METERS / L::METERS))
+            }
+        }
+    };
+}
+
+per_length!(
+    /// An attenuation (or gain) in decibels per unit length.
+    DbPer,
+    "dB"
+);
+per_length!(
+    /// An attenuation in nepers per unit length (α of γ = α + jβ).
+    NpPer,
+    "Np"
+);
+per_length!(
+    /// A phase constant in radians per unit length (β of γ = α + jβ).
+    RadPer,
+    "rad"
+);
+per_length!(
+    /// A propagation delay in seconds per unit length.
+    SecondsPer,
+    "s"
+);
+
+impl<L: Length> DbPer<L> {
+    /// The attenuation that gives `loss` over `length` (e.g. a datasheet's "dB per 100 ft").
+    /// `None` for a zero, negative or non-finite length or a non-finite loss.
+    pub fn from_loss(loss: Db, length: L) -> Option<Self> {
+        let l = length.amount();
+        if l > 0.0 && l.is_finite() && loss.is_finite() {
+            finite(loss.value() / l).map(Self::new)
+        } else {
+            None
+        }
+    }
+
+    /// The loss over a length of any unit. `None` when the product is not finite.
+    pub fn over<M: Length>(self, length: M) -> Option<Db> {
+        finite(self.per::<M>().value() * length.amount()).map(Db)
+    }
+
+    /// The same attenuation in nepers per unit length.
+    #[inline]
+    pub fn to_np(self) -> NpPer<L> {
+        NpPer::new(self.0 / DB_PER_NP)
+    }
+}
+
+impl<L: Length> NpPer<L> {
+    /// The same attenuation in decibels per unit length.
+    #[inline]
+    pub fn to_db(self) -> DbPer<L> {
+        DbPer::new(self.0 * DB_PER_NP)
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -319,4 +501,41 @@ mod tests {
         assert_eq!(a - Db::new(3.0), Dbm::new(27.0));
         assert_eq!(Watts::new(0.0).to_dbm(), None);
     }
+
+    #[test]
+    fn lengths_and_per_length() {
+        // The international foot is exactly 0.3048 m (1959 yard and pound agreement).
+        assert!((Feet::new(100.0).to_meters().value() - 30.48).abs() < 1e-4);
+        assert!((Feet::from(Meters::new(0.3048)).value() - 1.0).abs() < 1e-6);
+        // 6.6 dB per 100 ft is 6.6 / 30.48 dB per metre.
+        let a = DbPer::from_loss(Db::new(6.6), Feet::new(100.0)).unwrap();
+        let per_m = a.per::<Meters>().value();
+        assert!((per_m - 6.6 / 30.48).abs() < 1e-6);
+        assert!((a.over(Meters::new(30.48)).unwrap().value() - 6.6).abs() < 1e-4);
+        assert!((a.to_np().to_db().value() - a.value()).abs() < 1e-7);
+        assert_eq!(DbPer::from_loss(Db::new(1.0), Feet::new(0.0)), None);
+        assert_eq!(DbPer::from_loss(Db::new(f32::NAN), Feet::new(1.0)), None);
+    }
 }
+
+// Units added for vector impedance and calibration-standard models.
+scalar_unit!(
+    /// An inductance in henries.
+    Henries,
+    "H"
+);
+scalar_unit!(
+    /// A capacitance in farads.
+    Farads,
+    "F"
+);
+scalar_unit!(
+    /// A conductance, susceptance or admittance magnitude in siemens.
+    Siemens,
+    "S"
+);
+scalar_unit!(
+    /// A time interval (for example an offset delay) in seconds.
+    Seconds,
+    "s"
+);

@@ -1,4 +1,5 @@
-//! Host-side support for feedline's tests: the independent f64 reference model.
+//! Host-side support for feedline's tests: the independent f64 reference model and a
+//! simulated NOR flash for fault injection.
 //!
 //! The reference model is written apart from the core and never calls it, so that a check
 //! of the core against it compares two independent computations of the same textbook
@@ -7,3 +8,4 @@
 #![deny(missing_docs)]
 
 pub mod reference;
+pub mod sim_flash;
