@@ -121,8 +121,8 @@ impl MinimumVswr {
         };
         match parabolic_vertex(a, (bf, bg2), c) {
             Some((x, y)) => {
-                let x = x.clamp(a.0, c.0);
-                let g = Gamma::saturating(libm::sqrtf(y.clamp(0.0, bg2)));
+                let x = x.max(a.0).min(c.0);
+                let g = Gamma::saturating(libm::sqrtf(y.max(0.0).min(bg2)));
                 Some(VswrMinimum {
                     frequency: Hertz::new(x),
                     vswr: g.vswr(),

@@ -92,7 +92,9 @@ impl DtfResponse<'_> {
             0.0
         };
         let peak_db = b - 0.25 * (a - c) * p;
-        let d = ((n as f32 + p) * self.bin_spacing().value()).clamp(0.0, self.max_range().value());
+        let d = ((n as f32 + p) * self.bin_spacing().value())
+            .max(0.0)
+            .min(self.max_range().value());
         let mag = libm::powf(10.0, peak_db / 20.0);
         let rl = level_db(if mag.is_finite() { mag } else { 1.0 });
         Fault {

@@ -275,7 +275,7 @@ impl DtfResponse<'_> {
             a * d - b * d * d
         };
         if e.is_finite() {
-            e.clamp(0.0, max_np)
+            e.max(0.0).min(max_np)
         } else {
             0.0
         }

@@ -131,7 +131,7 @@ impl<const N: usize> SweepPlan<N> {
             Spacing::Linear => a + t * (b - a),
             Spacing::Logarithmic => a * libm::expf(t * libm::logf(b / a)),
         };
-        Some(Hertz::new(f.clamp(a, b)))
+        Some(Hertz::new(f.max(a).min(b)))
     }
 
     /// Every (index, frequency) of the plan, in order.
