@@ -207,6 +207,38 @@ pub const OPS: &[Op] = &[
         prepare: dtf_prepare::<Ctx>,
     },
     Op {
+        name: "dtf-256-plain",
+        run: dtf_run_plain::<Ctx>,
+        nominal: [256, 0, 0, 0],
+        sweep: no_sweep,
+        quick: false,
+        prepare: dtf_prepare::<Ctx>,
+    },
+    Op {
+        name: "libm-cosf",
+        run: libm_cosf::<Ctx>,
+        nominal: [0x3F00_0000, 0, 0, 0], // 0.5
+        sweep: no_sweep,
+        quick: false,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "libm-sqrtf",
+        run: libm_sqrtf::<Ctx>,
+        nominal: [0x4120_0000, 0, 0, 0], // 10.0
+        sweep: no_sweep,
+        quick: false,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "dtf-fft-1024",
+        run: dtf_fft::<Ctx>,
+        nominal: [1024, 0, 0, 0],
+        sweep: no_sweep,
+        quick: false,
+        prepare: dtf_prepare::<Ctx>,
+    },
+    Op {
         name: "core-gamma-reflection",
         run: core_gamma_reflection::<Ctx>,
         nominal: CHAIN_NOMINAL,
@@ -506,4 +538,46 @@ pub fn dtf_run<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
             Err(_) => [0, 0, 0, 1],
         }
     })
+}
+
+/// The FFT alone (`dtf::forward_in_place`, microfft radix-2) on the 1024-point buffer.
+#[inline(never)]
+pub fn dtf_fft<C>(_ctx: &C, _x: [u32; 4]) -> [u32; 4] {
+    interrupt::free(|cs| {
+        let mut buf = DTF_BUF.borrow(cs).borrow_mut();
+        let ok = dtf::forward_in_place(&mut buf[..]);
+        [u32::from(ok), buf[3].re.to_bits(), 0, 0]
+    })
+}
+
+/// As [`dtf_run`] with a rectangular window and no loss model: the transform's own cost
+/// without the per-point window and loss evaluations.
+#[inline(never)]
+pub fn dtf_run_plain<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    let setup = DtfSetup {
+        start: Hertz::new(1.0e6),
+        stop: Hertz::new(301.0e6),
+        window: Window::Rectangular,
+        velocity_factor: 0.66,
+        loss: dtf::NoLoss,
+    };
+    interrupt::free(|cs| {
+        let mut buf = DTF_BUF.borrow(cs).borrow_mut();
+        match dtf::transform_in_place(&mut buf[..], x[0] as usize, &setup) {
+            Ok(r) => [r.bins() as u32, r.bin_spacing().value().to_bits(), 0, 0],
+            Err(_) => [0, 0, 0, 1],
+        }
+    })
+}
+
+/// One libm `cosf` (the Hann window's cost per point).
+#[inline(never)]
+pub fn libm_cosf<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    [libm::cosf(f32::from_bits(x[0])).to_bits(), 0, 0, 0]
+}
+
+/// One libm `sqrtf` (the loss model's cost per point).
+#[inline(never)]
+pub fn libm_sqrtf<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    [libm::sqrtf(f32::from_bits(x[0])).to_bits(), 0, 0, 0]
 }
