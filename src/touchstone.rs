@@ -108,6 +108,7 @@ impl From<core::fmt::Error> for TouchstoneError {
 
 /// A streaming 1-port Touchstone writer.
 #[derive(Debug)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct TouchstoneWriter<W> {
     out: W,
     unit: FrequencyUnit,

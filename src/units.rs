@@ -440,6 +440,26 @@ per_length!(
     SecondsPer,
     "s"
 );
+per_length!(
+    /// A series resistance in ohms per unit length (R of a line).
+    OhmsPer,
+    "Ω"
+);
+per_length!(
+    /// A series inductance in henries per unit length (L of a line).
+    HenriesPer,
+    "H"
+);
+per_length!(
+    /// A shunt conductance in siemens per unit length (G of a line).
+    SiemensPer,
+    "S"
+);
+per_length!(
+    /// A shunt capacitance in farads per unit length (C of a line).
+    FaradsPer,
+    "F"
+);
 
 impl<L: Length> DbPer<L> {
     /// The attenuation that gives `loss` over `length` (e.g. a datasheet's "dB per 100 ft").

@@ -1,5 +1,5 @@
-//! Host-side support for feedline's tests: the independent f64 reference model and a
-//! simulated NOR flash for fault injection.
+//! Host-side support for feedline's tests: the independent f64 reference model, a
+//! simulated NOR flash for fault injection, captured sweeps and the SVG plot renderer.
 //!
 //! The reference model is written apart from the core and never calls it, so that a check
 //! of the core against it compares two independent computations of the same textbook
@@ -7,5 +7,7 @@
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]
 
+pub mod capture;
 pub mod reference;
 pub mod sim_flash;
+pub mod svg;

@@ -7,7 +7,8 @@
 //! worst errors.
 
 use feedline::dtf::{
-    scalar_transform_in_place, transform_in_place, DtfSetup, LossCoefficients, ResponseKind, Window,
+    scalar_transform_in_place, transform_in_place, DtfSetup, FaultSearch, LossCoefficients,
+    ResponseKind, Window,
 };
 use feedline::units::{Db, Hertz, Meters};
 use feedline_host_tests::reference::line_faults::{Discontinuity, FaultyLine};
@@ -119,7 +120,12 @@ fn faults_found_within_one_bin_and_one_db() {
             assert!((res - want_res).abs() < 1e-4 * want_res);
             let max_range = resp.max_range().value() as f64;
             assert!((max_range - (sc.points - 1) as f64 * want_res).abs() < 1e-3 * max_range);
-            let faults = resp.faults::<12>(Db::new(THRESHOLD_DB), Meters::new((4.0 * res) as f32));
+            let faults = resp.faults::<12>(&FaultSearch {
+                threshold: Db::new(THRESHOLD_DB),
+                min_separation: Meters::new((4.0 * res) as f32),
+                // Far enough for the first-order multiples (up to 2L).
+                max_distance: Meters::new((2.2 * sc.line.length) as f32),
+            });
             let want = expected(&sc.line);
             // Beyond the open end come the first-order multiples: end → connector i → end,
             // seen at 2L − d_i with about the connector's own return loss (the end reflects
@@ -197,7 +203,11 @@ fn uncompensated_far_reflections_read_too_weak() {
         loss: feedline::dtf::NoLoss,
     };
     let resp = transform_in_place(&mut buf, sc.points, &setup).unwrap();
-    let faults = resp.faults::<8>(Db::new(40.0), Meters::new(1.5));
+    let faults = resp.faults::<8>(&FaultSearch {
+        threshold: Db::new(40.0),
+        min_separation: Meters::new(1.5),
+        max_distance: Meters::new(f32::INFINITY),
+    });
     let end = faults
         .iter()
         .find(|f| (f.distance.value() - 23.7).abs() < 0.5)
@@ -236,7 +246,11 @@ fn scalar_sweep_shows_pair_separations() {
     };
     let resp = scalar_transform_in_place(&mut buf, n, &setup).unwrap();
     assert_eq!(resp.kind(), ResponseKind::ScalarPairs);
-    let faults = resp.faults::<4>(Db::new(45.0), Meters::new(1.0));
+    let faults = resp.faults::<4>(&FaultSearch {
+        threshold: Db::new(45.0),
+        min_separation: Meters::new(1.0),
+        max_distance: Meters::new(0.0),
+    });
     println!("scalar pairs: {faults:?}");
     let pair = faults
         .iter()

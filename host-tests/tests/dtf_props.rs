@@ -1,7 +1,7 @@
 //! Property tests: the distance-to-fault transforms and the fault list take any buffer, any
 //! setup and any loss model without panicking, and never give NaN or infinity.
 
-use feedline::dtf::{scalar_transform_in_place, transform_in_place, DtfSetup, Window};
+use feedline::dtf::{scalar_transform_in_place, transform_in_place, DtfSetup, FaultSearch, Window};
 use feedline::units::{Db, Hertz, Meters};
 use num_complex::Complex32;
 use proptest::prelude::*;
@@ -42,6 +42,7 @@ proptest! {
         loss in prop_oneof![wild(), 0.0f32..1.0],
         thr in wild(),
         sep in wild(),
+        maxd in wild(),
         scalar in any::<bool>(),
     ) {
         let mut buf = vec![Complex32::new(0.0, 0.0); len];
@@ -70,7 +71,11 @@ proptest! {
             for (d, rl) in r.iter() {
                 prop_assert!(d.is_finite() && rl.is_finite() && rl.value() >= 0.0);
             }
-            let faults = r.faults::<6>(Db::new(thr), Meters::new(sep));
+            let faults = r.faults::<6>(&FaultSearch {
+                threshold: Db::new(thr),
+                min_separation: Meters::new(sep),
+                max_distance: Meters::new(maxd),
+            });
             let mut last = -1.0f32;
             for f in &faults {
                 prop_assert!(f.distance.is_finite() && f.return_loss.is_finite());

@@ -143,8 +143,18 @@ fn code_sweep(
     reference: impl Fn(u16, u16) -> Scalars,
 ) {
     let mut sweep = Sweep::new(name);
+    let mut prev: Option<(u16, u16, FixedReflection)> = None;
+    let mut order_checks = 0u64;
     for (f, r) in code_pairs() {
         let m = measure(f, r);
+        // Monotonic in the reflected code, checked between neighbouring codes.
+        if let Some((pf, pr, p)) = prev {
+            if pf == f && pr.wrapping_add(1) == r {
+                assert!(not_more_reflective(&p, &m.reflection), "{f}: {pr} → {r}");
+                order_checks += 1;
+            }
+        }
+        prev = Some((f, r, m.reflection));
         // floor = 1: codes at or below it are read as the floor.
         let r_used = r.max(1);
         assert_eq!(
@@ -160,7 +170,16 @@ fn code_sweep(
             format!("forward {f}, reflected {r}")
         });
     }
+    println!("  ({order_checks} neighbouring reflected codes checked for order)");
     sweep.report_and_check();
+}
+
+/// True when `a` is no more reflective than `b` in every output.
+fn not_more_reflective(a: &FixedReflection, b: &FixedReflection) -> bool {
+    a.gamma <= b.gamma
+        && a.vswr <= b.vswr
+        && a.return_loss >= b.return_loss
+        && a.mismatch_loss <= b.mismatch_loss
 }
 
 #[test]
@@ -191,10 +210,19 @@ fn dbm_whole_range() {
     let forward = DbmQ16::from_int(10);
     let dense = 1..=150_000i32; // 0 .. 2.29 dB, every Q16.16 step
     let sparse = (150_000..=100 * 65_536).step_by(13);
+    let mut prev: Option<FixedReflection> = None;
     for d in dense.chain(sparse) {
         let m = chain
             .measure(forward, forward - DbQ16::from_bits(d))
             .unwrap();
+        // A larger difference is less reflection: monotonic over the whole sweep.
+        if let Some(p) = prev {
+            assert!(
+                not_more_reflective(&m.reflection, &p),
+                "at {d}: {p:?} {m:?}"
+            );
+        }
+        prev = Some(m.reflection);
         let d_db = f64::from(d) / 65_536.0;
         sweep.compare(&m.reflection, &reference::db_difference(d_db), &|| {
             format!("difference {d_db:.6} dB ({d} Q16.16 steps)")

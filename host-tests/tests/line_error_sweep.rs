@@ -13,7 +13,9 @@
 //!   ≤ 1e-6·(8 + 2βℓ);
 //! - de-embedding (embed then de-embed) with round-trip loss ≤ 20 dB: |ΔΓ| ≤ 2e-7·(8 + 2βℓ)
 //!   · e^(2αℓ)·κ²;
-//! - scalar feed-line relations: total loss 2e-4 dB and |ΓL| 2e-6 for ML ≤ 30 dB.
+//! - scalar feed-line relations: total loss 2e-4 dB and |ΓL| 2e-6 for ML ≤ 30 dB;
+//! - a geometry-described scenario cable's report (matched loss, SWR at the load, total
+//!   loss) 1.8–432 MHz: 1e-5 dB, 1e-5 relative, 2e-5 dB.
 
 use feedline::line::feed_loss::{gamma_at_load, total_loss};
 use feedline::line::LineConstants;
@@ -277,4 +279,48 @@ fn scalar_feed_loss_against_f64() {
     }
     wt.report(2e-4);
     wl.report(2e-6);
+}
+
+#[test]
+fn scenario_cable_report_against_f64() {
+    // A scenario cable as the emulated analyzer would describe it: an invented 50 Ω-class
+    // solid-PE coax, 30 m, read at several frequencies and SWRs; the core's FeedReport
+    // against the f64 chain geometry → RLGC → α → |ΓL| and total loss.
+    use feedline::line::{CoaxGeometry, Dielectric};
+    use feedline::reflection::Vswr;
+    let geo = CoaxGeometry::new(
+        Meters::new(0.9e-3),
+        Meters::new(2.95e-3),
+        Dielectric::SOLID_PE,
+    );
+    let mut w_ml = Worst::new("scenario matched loss (dB)");
+    let mut w_s = Worst::new("scenario SWR at load (relative)");
+    let mut w_t = Worst::new("scenario total loss (dB)");
+    for f in [1.8e6f32, 7.1e6, 14.2e6, 28.5e6, 50.1e6, 144.2e6, 432.1e6] {
+        let line = geo.line_at(Hertz::new(f)).unwrap();
+        let [r, l, g, c] = reference::coax_rlgc(0.9e-3, 2.95e-3, 2.25, 2e-4, 5.8e7, f64::from(f));
+        let (_, gm) = reference::rlgc(r, l, g, c, f64::from(f));
+        let ml = gm.re * reference::DB_PER_NP * 30.0;
+        for s in [1.05f32, 1.5, 2.0, 3.0] {
+            let rep = line
+                .feed_report(Meters::new(30.0), Vswr::new(s).unwrap())
+                .unwrap();
+            w_ml.see((f64::from(rep.matched_loss.value()) - ml).abs(), || {
+                format!("{f} Hz")
+            });
+            let gl = reference::gamma_at_load(reference::gamma_from_vswr(f64::from(s)), ml);
+            if gl < 0.99 {
+                let sl = reference::vswr(gl);
+                let got = f64::from(rep.at_load.vswr.value());
+                w_s.see((got - sl).abs() / sl, || format!("{f} Hz SWR {s}"));
+                let t = reference::total_loss(ml, gl);
+                w_t.see((f64::from(rep.total_loss.value()) - t).abs(), || {
+                    format!("{f} Hz SWR {s}")
+                });
+            }
+        }
+    }
+    w_ml.report(1e-5);
+    w_s.report(1e-5);
+    w_t.report(2e-5);
 }

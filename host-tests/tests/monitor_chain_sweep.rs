@@ -4,7 +4,7 @@
 //! Run with `--nocapture` to see them.
 
 use feedline::fixed::{RL_BOUND_DB, VSWR_BOUND_REL};
-use feedline::monitor::{LineMath, PowerChain, PowerReading};
+use feedline::monitor::{LineMath, PowerChain, PowerReading, GAMMA_BOUND};
 use feedline_host_tests::reference::monitor::figures;
 
 #[test]
@@ -14,6 +14,7 @@ fn power_chain_against_f64() {
     let mut worst_v = (0.0f64, 0u32, 0u32); // VSWR ≤ 20
     let mut worst_v_all = (0.0f64, 0u32, 0u32);
     let mut worst_rl = (0.0f64, 0u32, 0u32);
+    let mut worst_g = (0.0f64, 0u32, 0u32); // |Γ| implied by the VSWR, below the cap
     let mut n = 0u32;
     for fi in 0..=52 {
         let f = (1e3 * 10f64.powf(f64::from(fi) / 8.0)).min(4.0e9) as u32;
@@ -36,6 +37,11 @@ fn power_chain_against_f64() {
             if ev > worst_v_all.0 {
                 worst_v_all = (ev, f, r);
             }
+            let g = |v: f64| (v - 1.0) / (v + 1.0);
+            let eg = (g(gv) - g(v)).abs();
+            if v < 1000.0 && eg > worst_g.0 {
+                worst_g = (eg, f, r);
+            }
             if erl > worst_rl.0 {
                 worst_rl = (erl, f, r);
             }
@@ -54,7 +60,12 @@ fn power_chain_against_f64() {
         "  worst return-loss error: {:.5} dB at {} µW / {} µW",
         worst_rl.0, worst_rl.1, worst_rl.2
     );
+    println!(
+        "  worst |Γ| error (from VSWR, below the cap): {:.2e} at {} µW / {} µW",
+        worst_g.0, worst_g.1, worst_g.2
+    );
     assert!(n > 5000);
+    assert!(worst_g.0 <= f64::from(GAMMA_BOUND), "|Γ| bound");
     assert!(worst_v.0 <= f64::from(VSWR_BOUND_REL), "VSWR bound");
     assert!(worst_rl.0 <= f64::from(RL_BOUND_DB), "RL bound");
 }

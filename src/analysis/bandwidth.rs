@@ -222,7 +222,8 @@ pub fn q_from_bandwidth(f0: Hertz, bandwidth: Hertz, s: Vswr) -> Result<f32, Ana
         return Err(AnalysisError::OutOfRange);
     }
     let q = (s - 1.0) * f0 / (libm::sqrtf(s) * bw);
-    if q.is_finite() {
+    // Underflow to 0 or overflow to infinity is out of range, not a Q.
+    if q.is_finite() && q > 0.0 {
         Ok(q)
     } else {
         Err(AnalysisError::OutOfRange)

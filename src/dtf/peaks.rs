@@ -20,11 +20,26 @@ pub struct Fault {
     pub bin: usize,
 }
 
+/// What the fault list looks for.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct FaultSearch {
+    /// Report reflections whose compensated return loss is at most this (stronger).
+    pub threshold: Db,
+    /// Of two peaks closer than this, only the stronger is kept (≥ 2 resolutions is usual,
+    /// to skip a window's first sidelobes).
+    pub min_separation: Meters,
+    /// Search no farther than this, and stop the loss compensation growing here: set it to
+    /// the cable's length plus a margin, because compensation far past the last reflection
+    /// only amplifies leakage. Non-finite or ≤ 0 means the whole range.
+    pub max_distance: Meters,
+}
+
 impl DtfResponse<'_> {
-    /// Up to `P` faults whose compensated return loss is at most `threshold` (stronger than
-    /// the threshold), sorted by distance. Of two peaks closer than `min_separation` only the
-    /// stronger is kept; when more than `P` qualify, the strongest `P` are kept.
-    pub fn faults<const P: usize>(&self, threshold: Db, min_separation: Meters) -> Vec<Fault, P> {
+    /// Up to `P` faults found by `search`, sorted by distance. Of two peaks closer than the
+    /// minimum separation only the stronger is kept; when more than `P` qualify, the
+    /// strongest `P` are kept.
+    pub fn faults<const P: usize>(&self, search: &FaultSearch) -> Vec<Fault, P> {
         let mut out: Vec<Fault, P> = Vec::new();
         let bins = self.raw_bins();
         let m = bins.len();
@@ -32,13 +47,19 @@ impl DtfResponse<'_> {
         if m < 3 || n_read == 0 {
             return out;
         }
-        let thr = threshold.value();
+        let thr = search.threshold.value();
         let thr = if thr.is_finite() { thr } else { 0.0 };
-        let min_sep = min_separation.value();
+        let min_sep = search.min_separation.value();
         let min_sep = if min_sep.is_finite() {
             min_sep.max(0.0)
         } else {
             0.0
+        };
+        let max_d = search.max_distance.value();
+        let max_d = if max_d.is_finite() && max_d > 0.0 {
+            max_d.min(self.max_range().value())
+        } else {
+            self.max_range().value()
         };
         // Squared compensated magnitude, the gain by recurrence: with the exponent
         // E(n) = A·n − B·n² (A = a·Δd, B = b·Δd²), gain²(n + 1) = gain²(n)·r(n) with
@@ -56,11 +77,15 @@ impl DtfResponse<'_> {
             bins.get(n).map_or(0.0, |c| c.norm_sqr() * s2 * gain2)
         };
         let mut gain2 = 1.0f32;
-        let g_last = self.compensation(self.distance(m - 1));
-        let mut prev = mag2(m - 1, g_last * g_last);
+        // Bin 0's left neighbour is bin M − 1 (circular): distance −Δd, no compensation.
+        let mut prev = mag2(m - 1, 1.0);
         let mut cur = mag2(0, 1.0);
         for n in 0..n_read {
-            if ratio.is_nan() || ratio < 1.0 {
+            let d_next = (n + 1) as f32 * dd;
+            if self.distance(n).value() > max_d {
+                break;
+            }
+            if ratio.is_nan() || ratio < 1.0 || d_next > max_d {
                 ratio = 1.0;
             }
             let next_gain2 = (gain2 * ratio).min(cap);

@@ -157,24 +157,32 @@ pub fn transform_in_place<'a, L: AttenuationModel>(
     let c = check(buf.len(), points, setup)?;
     let (mut sum_w, mut sum_wa, mut sum_wa2) = (0.0f32, 0.0f32, 0.0f32);
     let f0 = setup.start.value();
-    for (k, x) in buf.iter_mut().enumerate() {
-        if k >= points {
-            *x = Complex32::new(0.0, 0.0);
-            continue;
+    // The window is symmetric: compute w_k once for the pair (k, N − 1 − k).
+    let window = setup.window.prepare();
+    for k in 0..points.div_ceil(2) {
+        let w = window.coefficient(k, points);
+        let mirror = points - 1 - k;
+        for idx in [k, mirror] {
+            let x = buf.get_mut(idx).ok_or(DtfError::BadLength)?;
+            if !x.re.is_finite() || !x.im.is_finite() {
+                return Err(DtfError::NotFinite);
+            }
+            let alpha = setup.loss.db_per_meter(Hertz::new(f0 + idx as f32 * c.df));
+            if !alpha.is_finite() || alpha < 0.0 {
+                return Err(DtfError::BadLoss);
+            }
+            // Conjugate while windowing: |IDFT(x)| = |DFT(conj x)|.
+            *x = Complex32::new(x.re * w, -x.im * w);
+            sum_w += w;
+            sum_wa += w * alpha;
+            sum_wa2 += w * alpha * alpha;
+            if mirror == k {
+                break;
+            }
         }
-        if !x.re.is_finite() || !x.im.is_finite() {
-            return Err(DtfError::NotFinite);
-        }
-        let w = setup.window.coefficient(k, points);
-        let alpha = setup.loss.db_per_meter(Hertz::new(f0 + k as f32 * c.df));
-        if !alpha.is_finite() || alpha < 0.0 {
-            return Err(DtfError::BadLoss);
-        }
-        // Conjugate while windowing: |IDFT(x)| = |DFT(conj x)|.
-        *x = Complex32::new(x.re * w, -x.im * w);
-        sum_w += w;
-        sum_wa += w * alpha;
-        sum_wa2 += w * alpha * alpha;
+    }
+    for x in buf.iter_mut().skip(points) {
+        *x = Complex32::new(0.0, 0.0);
     }
     let moments = if sum_w > 0.0 {
         let mean = sum_wa / sum_w;
@@ -203,6 +211,7 @@ pub fn scalar_transform_in_place<'a, L>(
         sum_p += g * g;
     }
     let mean = sum_p / points as f32;
+    let window = setup.window.prepare();
     let mut sum_w = 0.0f32;
     for (k, x) in buf.iter_mut().enumerate() {
         if k >= points {
@@ -210,7 +219,7 @@ pub fn scalar_transform_in_place<'a, L>(
             continue;
         }
         let g = x.re.clamp(0.0, 1.0);
-        let w = setup.window.coefficient(k, points);
+        let w = window.coefficient(k, points);
         *x = Complex32::new((g * g - mean) * w, 0.0);
         sum_w += w;
     }

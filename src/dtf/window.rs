@@ -36,14 +36,13 @@ pub enum Window {
 
 /// I0(x) by its power series (Abramowitz and Stegun 9.6.10). Finite for |x| ≤ 90.
 pub fn bessel_i0(x: f32) -> f32 {
-    let h = 0.5 * x;
+    let h2 = 0.25 * x * x;
     let mut term = 1.0f32;
     let mut sum = 1.0f32;
     let mut m = 1.0f32;
     // Converges for every finite x; 200 terms reach 1e-8 relative for |x| ≤ 100.
     for _ in 0..200 {
-        let r = h / m;
-        term *= r * r;
+        term *= h2 / (m * m);
         sum += term;
         if term < 1.0e-8 * sum {
             break;
@@ -52,6 +51,41 @@ pub fn bessel_i0(x: f32) -> f32 {
     }
     sum
 }
+
+/// cos(2π·t) in f32 without f64 arithmetic (libm's `cosf` works in f64, which is slow
+/// software arithmetic on a single-precision FPU): reduction to one eighth of a turn by
+/// symmetry, then the Taylor polynomials of cos and sin to degree 8 and 9 (truncation below
+/// 3e-8 for |y| ≤ π/4). Absolute error against f64 below [`COS_TURNS_BOUND`].
+pub fn cos_turns(t: f32) -> f32 {
+    if !t.is_finite() {
+        return 1.0;
+    }
+    let r = t - libm::floorf(t + 0.5);
+    let a = libm::fabsf(r).min(0.5);
+    let quarter = core::f32::consts::FRAC_PI_2;
+    let cos_p = |y: f32| {
+        let y2 = y * y;
+        1.0 - y2 * (0.5 - y2 * (1.0 / 24.0 - y2 * (1.0 / 720.0 - y2 * (1.0 / 40_320.0))))
+    };
+    let sin_p = |y: f32| {
+        let y2 = y * y;
+        y * (1.0 - y2 * (1.0 / 6.0 - y2 * (1.0 / 120.0 - y2 * (1.0 / 5040.0 - y2 / 362_880.0))))
+    };
+    let y = a * core::f32::consts::TAU;
+    if a <= 0.125 {
+        cos_p(y)
+    } else if a <= 0.25 {
+        sin_p(quarter - y)
+    } else if a <= 0.375 {
+        -sin_p(y - quarter)
+    } else {
+        -cos_p(core::f32::consts::PI - y)
+    }
+}
+
+/// Bound on |cos_turns(t) − cos(2πt)| (measured over 0..=1 in steps of 1e-5 by the unit
+/// test below: f32 round-off of the reduction and the polynomial).
+pub const COS_TURNS_BOUND: f32 = 4.0e-7;
 
 impl Window {
     /// True when the window's parameters are usable (finite β in 0..=[`KAISER_BETA_MAX`]).
@@ -64,6 +98,44 @@ impl Window {
 
     /// w_k for point `k` of `n`, in 0..=1; 1 for n ≤ 1 and 0 for k ≥ n.
     pub fn coefficient(&self, k: usize, n: usize) -> f32 {
+        self.prepare().coefficient(k, n)
+    }
+
+    /// The window with its per-sweep constant (I0(β) for Kaiser) worked out once, for
+    /// evaluating many coefficients.
+    pub fn prepare(&self) -> PreparedWindow {
+        let (beta, inv_i0_beta) = match *self {
+            Window::Kaiser { beta } => {
+                let beta = if beta.is_finite() {
+                    beta.clamp(0.0, KAISER_BETA_MAX)
+                } else {
+                    0.0
+                };
+                // I0(β) ≥ 1, so the reciprocal is in (0, 1].
+                (beta, 1.0 / bessel_i0(beta))
+            }
+            _ => (0.0, 1.0),
+        };
+        PreparedWindow {
+            window: *self,
+            beta,
+            inv_i0_beta,
+        }
+    }
+}
+
+/// A [`Window`] ready for repeated evaluation (see [`Window::prepare`]).
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct PreparedWindow {
+    window: Window,
+    beta: f32,
+    inv_i0_beta: f32,
+}
+
+impl PreparedWindow {
+    /// w_k for point `k` of `n`, in 0..=1; 1 for n ≤ 1 and 0 for k ≥ n.
+    pub fn coefficient(&self, k: usize, n: usize) -> f32 {
         if k >= n {
             return 0.0;
         }
@@ -71,18 +143,13 @@ impl Window {
             return 1.0;
         }
         let x = k as f32 / (n - 1) as f32;
-        match *self {
+        match self.window {
             Window::Rectangular => 1.0,
-            Window::Hann => 0.5 * (1.0 - libm::cosf(core::f32::consts::TAU * x)),
-            Window::Kaiser { beta } => {
-                let beta = if beta.is_finite() {
-                    beta.clamp(0.0, KAISER_BETA_MAX)
-                } else {
-                    0.0
-                };
+            Window::Hann => (0.5 * (1.0 - cos_turns(x))).clamp(0.0, 1.0),
+            Window::Kaiser { .. } => {
                 let u = 2.0 * x - 1.0;
-                let arg = beta * libm::sqrtf((1.0 - u * u).max(0.0));
-                (bessel_i0(arg) / bessel_i0(beta)).clamp(0.0, 1.0)
+                let arg = self.beta * crate::dtf::sqrt_fast((1.0 - u * u).max(0.0));
+                (bessel_i0(arg) * self.inv_i0_beta).clamp(0.0, 1.0)
             }
         }
     }
@@ -110,6 +177,19 @@ mod tests {
             assert!((got - want).abs() <= I0_TOL * want, "{x}: {got}");
         }
         assert!(bessel_i0(KAISER_BETA_MAX).is_finite());
+    }
+
+    #[test]
+    fn cos_turns_against_f64() {
+        let mut worst = 0.0f64;
+        for i in 0..=100_000 {
+            let t = i as f32 * 1.0e-5;
+            let want = (core::f64::consts::TAU * t as f64).cos();
+            worst = worst.max((cos_turns(t) as f64 - want).abs());
+        }
+        assert!(worst < COS_TURNS_BOUND as f64, "{worst}");
+        assert_eq!(cos_turns(f32::NAN), 1.0);
+        assert!((cos_turns(-0.25)).abs() < 1e-6 && (cos_turns(3.5) + 1.0).abs() < 1e-6);
     }
 
     #[test]

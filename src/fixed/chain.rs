@@ -3,39 +3,45 @@
 //!
 //! | chain | reading | |Γ| from | method |
 //! |---|---|---|---|
-//! | [`LinearChain`] | ADC code ∝ amplitude | r/f | RL = 20·log10 2 · (log2 f − log2 r); VSWR = 2^(log2(f+r) − log2(f−r)); ML = 10·log10 2 · (2·log2 f − log2(f+r) − log2(f−r)) |
+//! | [`LinearChain`] | ADC code ∝ amplitude | r/f | RL = 20·log10 2 · (log2 f − log2 r); VSWR = 2^(2·log2(f+r) − log2(f²−r²)); ML = 10·log10 2 · (2·log2 f − log2(f²−r²)) |
 //! | [`SquareLawChain`] | ADC code ∝ power | √(r/f) | RL = 10·log10 2 · (log2 f − log2 r); ML = 10·log10 2 · (log2 f − log2(f−r)); VSWR = (1+\|Γ\|)²·f/(f−r) |
-//! | [`DbmChain`] | power in dBm, Q16.16 | 10^(−d/20), d = Pf − Pr | RL = d; VSWR and ML from log2(1 ± \|Γ\|) |
+//! | [`DbmChain`] | power in dBm, Q16.16 | 10^(−d/20), d = Pf − Pr | RL = d; VSWR from log2(1 ± \|Γ\|), ML from log2(1 − \|Γ\|²) |
 //! | [`LogDetectorChain`] | ADC code of a log detector, V = slope·(P − intercept) | as [`DbmChain`] | d from the code difference |
 //!
-//! For the code laws every logarithm is taken of an exact integer (f, r, f ± r), so the
+//! For the code laws every logarithm is taken of an exact integer (f, r, f + r, f − r,
+//! f² − r²), so the
 //! ill-conditioned 1 − |Γ| near a total reflection is exact. For the dB laws, 1 − |Γ| with
 //! |Γ| near 1 (d < 2.17 dB, y = d·ln 10/20 < 0.25) uses the series
 //! ln(1 − e^(−y)) = ln y − y/2 + y²/24 − y⁴/2880 + … (from ln((1 − e^(−y))/y) =
 //! −y/2 + ln(sinh(y/2)/(y/2)) and the Taylor series of ln(sinh x / x), e.g. Abramowitz &
 //! Stegun 4.5.64 with 4.1.24), truncated after y²/24 (error < 2e-6 in log2).
 //!
-//! Verdict (same meaning as the f32 path's `bridge`): the forward reading at or above the
-//! full-scale limit is [`FixedFault::ForwardSaturated`], below the noise floor
-//! [`FixedFault::ForwardBelowFloor`]; a reflected reading above the forward one (noise, or a
-//! reversed connection) is [`FixedFault::ReflectedAboveForward`]. A reflected reading equal
-//! to the forward one is a total reflection (|Γ| = 1, capped). A reflected reading below the
-//! floor is not an error: [`FixedQuality::reflected_below_floor`] is set and the return loss
-//! is then a lower bound. A zero reflected code reads as a perfect match (capped).
+//! Verdict (same meaning and flag names as the f32 path's `bridge`): a forward reading at or
+//! above the full-scale limit is [`FixedFault::ForwardSaturated`], a reflected one
+//! [`FixedFault::ReflectedSaturated`]; a forward reading at or below the noise floor is
+//! [`FixedFault::ForwardBelowFloor`]; a reflected reading above the forward one by more than
+//! the total-reflection margin (noise, or a reversed connection) is
+//! [`FixedFault::ReflectedAboveForward`], within the margin it reads as |Γ| = 1 with
+//! [`FixedQuality::CLAMPED_TOTAL`]. A reflected reading equal to the forward one is a total
+//! reflection. A reflected reading at or below the floor (a zero code included) is not an
+//! error: the floor is used in its place and [`FixedQuality::REFLECTED_AT_FLOOR`] is set, so
+//! the return loss is a lower bound. [`FixedQuality::CAPPED`] marks a value at its ceiling.
 //!
 //! Cost: per reading, no division, no 64-bit and no floating-point operation: four table
-//! logarithms, two table exponentials, two or three [`super::wide::mul_hi`].
+//! logarithms, two table exponentials and a few 16 × 16 multiplies (about 340 Armv6-M
+//! instructions for the code chains; see the module doc of `fixed`).
 //!
 //! Panic policy: nothing here panics; constructors refuse bad configurations with
 //! [`FixedConfigError`].
 
 use super::exp2::{exp2_neg_q31, exp2_q16};
-use super::log2::{log2_q24, ONE_Q24};
+use super::log2::{log2_q24, log2_u16_q24, ONE_Q24};
 use super::q::{DbQ16, DbmQ16, GammaQ31, DB_CEILING_Q16, GAMMA_ONE_Q31};
 use super::relations::{
-    db10_from_log2, db20_from_log2, vswr_from_log2, FixedReflection, K_DB_TO_LOG2,
+    db10_from_log2, neg_log2_one_minus_gamma_squared, vswr_from_log2, FixedReflection, K_DB_Q16,
+    K_DB_TO_LOG2,
 };
-use super::wide::{mul_hi, mul_shr};
+use super::wide::{mul_hi, mul_hi_fast, mul_shr, mul_u16_shr};
 
 /// Why a reading gives no measurement. Names and meaning as in the f32 path's
 /// `bridge::Fault` (the variants that cannot arise with integers are left out).
@@ -311,6 +317,17 @@ impl DbmLimits {
     }
 }
 
+#[inline(always)]
+fn total() -> FixedReflection {
+    FixedReflection {
+        gamma: GammaQ31::TOTAL,
+        vswr: super::q::VswrQ16::CEILING,
+        return_loss: DbQ16::ZERO,
+        mismatch_loss: DbQ16::from_bits(DB_CEILING_Q16),
+        capped: true,
+    }
+}
+
 const THIRTY_ONE_Q24: i32 = 31 * ONE_Q24;
 
 /// Linear-detector chain: codes proportional to amplitude (|Γ| = r/f).
@@ -332,7 +349,7 @@ impl LinearChain {
     /// The verdict and reflection quantities for one forward and one reflected code.
     pub fn measure(&self, forward: u16, reflected: u16) -> Result<FixedMeasurement, FixedFault> {
         Ok(match self.limits.verdict(forward, reflected)? {
-            Verdict::Total(q) => FixedMeasurement::new(FixedReflection::TOTAL, q),
+            Verdict::Total(q) => FixedMeasurement::new(total(), q),
             Verdict::Partial(f, r, q) => FixedMeasurement::new(linear_core(f, r), q),
         })
     }
@@ -341,22 +358,32 @@ impl LinearChain {
 /// 0 < r < f < 2^16.
 #[inline]
 fn linear_core(f: u32, r: u32) -> FixedReflection {
-    let lf = log2_q24(f); // all four in 0..17 · 2^24: no overflow below
-    let lr = log2_q24(r);
+    // Each output is finished before the next logarithm, which keeps few values live (on
+    // Armv6-M, fewer register spills). Every logarithm is of an exact integer < 2^32.
+    // f and r came from u16 codes: the casts are exact.
+    let lf = log2_u16_q24(f as u16);
+    let lr = log2_u16_q24(r as u16);
+    // −log2|Γ| = log2 f − log2 r ∈ [0, 16] (log2_q24 is monotonic): RL ≤ 96.4 dB, below the
+    // 100 dB cap, so no cap test is needed.
+    let d = lf.wrapping_sub(lr).max(0) as u32;
+    let return_loss = DbQ16::from_bits(mul_u16_shr(d, K_DB_Q16, 21) as i32);
+    let gamma = GammaQ31::from_bits(exp2_neg_q31(d));
+    // f² − r² = (f − r)(f + r) = (1 − |Γ|²) · f² is exact in u32 (f² < 2^32) and falls as r
+    // rises, so mismatch loss and VSWR come out monotonic in r.
     let lp = log2_q24(f + r);
-    let lm = log2_q24(f - r);
-    let d = lf.wrapping_sub(lr); // −log2|Γ| ≥ 0 (log2_q24 is monotonic)
-    let (return_loss, c1) = db20_from_log2(d);
-    let gamma = GammaQ31::from_bits(exp2_neg_q31(d.max(0) as u32));
-    let (vswr, c2) = vswr_from_log2(lp.wrapping_sub(lm));
-    let ml_log = lf.wrapping_add(lf).wrapping_sub(lp).wrapping_sub(lm);
-    let (mismatch_loss, c3) = db10_from_log2(ml_log);
+    let ld = log2_q24((f - r) * (f + r));
+    // log2 VSWR = log2((f + r)² / (f² − r²)).
+    let (vswr, capped) = vswr_from_log2(lp.wrapping_add(lp).wrapping_sub(ld));
+    // −log2(1 − |Γ|²) = log2 f² − log2(f² − r²) ≤ log2(f²/(2f − 1)) < 16: ML < 48 dB, below
+    // the cap.
+    let ml = lf.wrapping_add(lf).wrapping_sub(ld).max(0) as u32;
+    let mismatch_loss = DbQ16::from_bits(mul_u16_shr(ml, K_DB_Q16, 22) as i32);
     FixedReflection {
         gamma,
         vswr,
         return_loss,
         mismatch_loss,
-        capped: c1 || c2 || c3,
+        capped,
     }
 }
 
@@ -379,7 +406,7 @@ impl SquareLawChain {
     /// The verdict and reflection quantities for one forward and one reflected code.
     pub fn measure(&self, forward: u16, reflected: u16) -> Result<FixedMeasurement, FixedFault> {
         Ok(match self.limits.verdict(forward, reflected)? {
-            Verdict::Total(q) => FixedMeasurement::new(FixedReflection::TOTAL, q),
+            Verdict::Total(q) => FixedMeasurement::new(total(), q),
             Verdict::Partial(f, r, q) => FixedMeasurement::new(square_core(f, r), q),
         })
     }
@@ -388,25 +415,27 @@ impl SquareLawChain {
 /// 0 < r < f < 2^16.
 #[inline]
 fn square_core(f: u32, r: u32) -> FixedReflection {
-    let lf = log2_q24(f);
-    let lr = log2_q24(r);
-    let lm = log2_q24(f - r);
-    let d = lf.wrapping_sub(lr); // −log2|Γ|² ≥ 0
-    let (return_loss, c1) = db10_from_log2(d);
+    // f and r came from u16 codes: the casts are exact.
+    let lf = log2_u16_q24(f as u16);
+    let lr = log2_u16_q24(r as u16);
+    // −log2|Γ|² ∈ [0, 16]: RL ≤ 48.2 dB, below the cap.
+    let d = lf.wrapping_sub(lr).max(0) as u32;
+    let return_loss = DbQ16::from_bits(mul_u16_shr(d, K_DB_Q16, 22) as i32);
     // |Γ| = 2^(−d/2) < 1 because d > 0, so 2^31 + g < 2^32.
-    let g = exp2_neg_q31((d.max(0) as u32) >> 1);
-    let gamma = GammaQ31::from_bits(g);
+    let gamma = GammaQ31::from_bits(exp2_neg_q31(d >> 1));
+    // −log2(1 − |Γ|²) = log2 f − log2(f − r) ∈ [0, 16]: ML ≤ 48.2 dB, below the cap.
+    let lm = log2_u16_q24((f - r) as u16);
+    let ml = lf.wrapping_sub(lm).max(0) as u32;
+    let mismatch_loss = DbQ16::from_bits(mul_u16_shr(ml, K_DB_Q16, 22) as i32);
     let l1p = log2_q24(GAMMA_ONE_Q31.wrapping_add(gamma.to_bits())).wrapping_sub(THIRTY_ONE_Q24);
-    // log2 VSWR = 2·log2(1 + |Γ|) − log2(1 − |Γ|²), and 1 − |Γ|² = (f − r)/f.
-    let lv = l1p.wrapping_add(l1p).wrapping_add(lf).wrapping_sub(lm);
-    let (vswr, c2) = vswr_from_log2(lv);
-    let (mismatch_loss, c3) = db10_from_log2(lf.wrapping_sub(lm));
+    // log2 VSWR = 2·log2(1 + |Γ|) − log2(1 − |Γ|²).
+    let (vswr, capped) = vswr_from_log2(l1p.wrapping_add(l1p).wrapping_add(ml as i32));
     FixedReflection {
         gamma,
         vswr,
         return_loss,
         mismatch_loss,
-        capped: c1 || c2 || c3,
+        capped,
     }
 }
 
@@ -425,13 +454,13 @@ const DB_CEILING_Q24: u32 = (DB_CEILING_Q16 as u32) << 8;
 #[inline]
 fn db_core(d: u32, capped: bool) -> FixedReflection {
     let return_loss = DbQ16::from_bits(((d + 128) >> 8) as i32);
-    let a = mul_hi(d, K_DB_TO_LOG2); // −log2|Γ|, ≤ 16.6 · 2^24
+    let a = mul_hi_fast(d, K_DB_TO_LOG2); // −log2|Γ|, ≤ 16.6 · 2^24
     let g = exp2_neg_q31(a); // < 2^31 because a > 0
     let gamma = GammaQ31::from_bits(g);
     let l1p = log2_q24(GAMMA_ONE_Q31.wrapping_add(g)).wrapping_sub(THIRTY_ONE_Q24);
     let l1m = if d < SERIES_BELOW_DB_Q24 {
         // log2(1 − e^(−y)) = log2 y + (−y/2 + y²/24)/ln 2, y = d · ln 10 / 20 < 0.25.
-        let y = mul_hi(d, K_DB_TO_LN); // Q8.24, < 2^22
+        let y = mul_hi_fast(d, K_DB_TO_LN); // Q8.24, < 2^22
         let log2_y = log2_q24(d)
             .wrapping_sub(24 * ONE_Q24)
             .wrapping_add(LOG2_LN10_OVER_20_Q24);
@@ -445,8 +474,12 @@ fn db_core(d: u32, capped: bool) -> FixedReflection {
         log2_q24(GAMMA_ONE_Q31.wrapping_sub(g)).wrapping_sub(THIRTY_ONE_Q24)
     };
     let (vswr, c2) = vswr_from_log2(l1p.wrapping_sub(l1m));
-    // l1p + l1m = log2(1 − |Γ|²) ∈ (−60, 0]: no overflow.
-    let (mismatch_loss, c3) = db10_from_log2(0i32.wrapping_sub(l1p.wrapping_add(l1m)));
+    let (mismatch_loss, c3) = if d < SERIES_BELOW_DB_Q24 {
+        // l1p + l1m = log2(1 − |Γ|²) ∈ (−60, 0]: no overflow.
+        db10_from_log2(0i32.wrapping_sub(l1p.wrapping_add(l1m)))
+    } else {
+        db10_from_log2(neg_log2_one_minus_gamma_squared(g))
+    };
     FixedReflection {
         gamma,
         vswr,
@@ -460,7 +493,7 @@ fn db_core(d: u32, capped: bool) -> FixedReflection {
 #[inline]
 fn from_db_difference(d: u32) -> FixedReflection {
     if d == 0 {
-        FixedReflection::TOTAL
+        total()
     } else if d >= DB_CEILING_Q24 {
         db_core(DB_CEILING_Q24, true)
     } else {
@@ -491,7 +524,7 @@ impl DbmChain {
     ) -> Result<FixedMeasurement, FixedFault> {
         let (d16, quality) = self.limits.verdict(forward, reflected)?;
         let reflection = match d16 {
-            None => FixedReflection::TOTAL,
+            None => total(),
             Some(d16) if d16 >= DB_CEILING_Q16 as u32 => from_db_difference(DB_CEILING_Q24),
             Some(d16) => from_db_difference(d16 << 8),
         };
@@ -568,7 +601,7 @@ impl LogDetectorChain {
         let pr = self.power(reflected);
         let (d16, quality) = self.limits.verdict(pf, pr)?;
         let reflection = match d16 {
-            None => FixedReflection::TOTAL,
+            None => total(),
             Some(_) if quality.contains(FixedQuality::REFLECTED_AT_FLOOR) => {
                 // The floor replaced the reflected power: use the power difference.
                 let d16 = d16.unwrap_or(0);

@@ -1,7 +1,7 @@
 //! Integer base-2 logarithm of a `u32`, result in Q8.24 (`i32`, 24 fraction bits).
 //!
-//! Method: normalise x = 2^e · (1 + t) with 0 ≤ t < 1 by a five-step binary search (Armv6-M
-//! has no count-leading-zeros instruction), then log2(1 + t) by linear interpolation in a
+//! Method: normalise x = 2^e · (1 + t) with 0 ≤ t < 1 by a three-step binary search and a
+//! 16-entry table (Armv6-M has no count-leading-zeros instruction), then log2(1 + t) by linear interpolation in a
 //! 65-entry table of log2(1 + i/64). This is the table-and-interpolate method of any numerical
 //! analysis text (e.g. Hildebrand, *Introduction to Numerical Analysis*, ch. 2: the error of
 //! linear interpolation is h²/8 · max|f''|). With h = 1/64 and f(t) = log2(1 + t),
@@ -13,7 +13,7 @@
 //! non-decreasing in x: the interpolant of an increasing table is increasing.
 //!
 //! Cost: no division, no 64-bit arithmetic; one 32 × 32 → 32 multiply whose factors are
-//! < 2^19 and < 2^12. Table: 65 × 4 = 260 bytes of flash.
+//! < 2^19 and < 2^12. Tables: 65 × 4 = 260 bytes plus 16 bytes of flash.
 //!
 //! Panic policy: nothing here panics. `log2_q24(0)` is [`LOG2_OF_ZERO`].
 
@@ -44,36 +44,59 @@ const LOG2_TABLE: [u32; 65] = [
 /// Table size in bytes (for the README's memory figures).
 pub const LOG2_TABLE_BYTES: usize = core::mem::size_of::<[u32; 65]>();
 
-/// log2(x) in Q8.24: for x ≥ 1 the result is in `0..32 · 2^24`. See the module doc for the
-/// error bound; `log2_q24(0)` returns [`LOG2_OF_ZERO`].
+/// ⌊log2 n⌋ for n = 1..=15 (entry 0 unused): the last step of the normalisation.
+const FLOOR_LOG2_NIBBLE: [u8; 16] = [0, 0, 1, 1, 2, 2, 2, 2, 3, 3, 3, 3, 3, 3, 3, 3];
+
+/// x = m · 2^(e − 31) with bit 31 of m set, e = ⌊log2 x⌋; x must be non-zero.
 #[inline]
-pub fn log2_q24(x: u32) -> i32 {
+fn normalize(x: u32) -> (u32, i32) {
+    // Armv6-M has no count-leading-zeros instruction (and `u32::leading_zeros` would call a
+    // library routine there): three halvings of the search range, then a 16-entry table.
+    let mut e: u32 = 0;
+    let mut top = x;
+    if top >= 1 << 16 {
+        top >>= 16;
+        e = 16;
+    }
+    if top >= 1 << 8 {
+        top >>= 8;
+        e += 8;
+    }
+    if top >= 1 << 4 {
+        top >>= 4;
+        e += 4;
+    }
+    // 1 ≤ top ≤ 15 here.
+    e += u32::from(FLOOR_LOG2_NIBBLE.get(top as usize).copied().unwrap_or(0));
+    (x << (31 - e), e as i32)
+}
+
+/// The same as [`log2_q24`] for a 16-bit input, one halving shorter (the code chains take the
+/// logarithm of 16-bit codes; on Armv6-M this saves a few instructions a call).
+#[inline]
+pub fn log2_u16_q24(x: u16) -> i32 {
     if x == 0 {
         return LOG2_OF_ZERO;
     }
-    // Normalise: m has bit 31 set, x = m · 2^(e − 31).
-    let mut m = x;
-    let mut e: i32 = 31;
-    if m < 1 << 16 {
-        m <<= 16;
-        e -= 16;
+    let x = u32::from(x);
+    let mut e: u32 = 0;
+    let mut top = x;
+    if top >= 1 << 8 {
+        top >>= 8;
+        e = 8;
     }
-    if m < 1 << 24 {
-        m <<= 8;
-        e -= 8;
+    if top >= 1 << 4 {
+        top >>= 4;
+        e += 4;
     }
-    if m < 1 << 28 {
-        m <<= 4;
-        e -= 4;
-    }
-    if m < 1 << 30 {
-        m <<= 2;
-        e -= 2;
-    }
-    if m < 1 << 31 {
-        m <<= 1;
-        e -= 1;
-    }
+    e += u32::from(FLOOR_LOG2_NIBBLE.get(top as usize).copied().unwrap_or(0));
+    // e ≤ 15 and the mantissa log ≤ 2^24: the sum is < 2^28.
+    ((e << 24) + log2_mantissa(x << (31 - e))) as i32
+}
+
+/// log2(m / 2^31) in Q8.24 (in `0..2^24`) for m with bit 31 set.
+#[inline]
+fn log2_mantissa(m: u32) -> u32 {
     // t = fraction after the leading one, 32 bits: index = top 6 bits, then 12 bits of
     // position inside the segment. The bits below are dropped (≤ 2^-18 of t).
     let t = m << 1;
@@ -82,9 +105,40 @@ pub fn log2_q24(x: u32) -> i32 {
     let lo = LOG2_TABLE.get(idx).copied().unwrap_or(0);
     let hi = LOG2_TABLE.get(idx + 1).copied().unwrap_or(lo);
     // hi − lo ≤ 375_270 < 2^19 and frac < 2^12: the product is < 2^31.
-    let y = lo + (((hi - lo) * frac) >> 12);
-    // e ≤ 31 and y ≤ 2^24: the sum is < 2^29.
-    (e << 24) + y as i32
+    lo + (((hi - lo) * frac) >> 12)
+}
+
+/// log2(x) in Q8.24: for x ≥ 1 the result is in `0..32 · 2^24`. See the module doc for the
+/// error bound; `log2_q24(0)` returns [`LOG2_OF_ZERO`].
+// Inlined: on Armv6-M this saves about 12 of ~350 instructions per reading at the cost of
+// about 350 bytes of flash per chain (measured with host-tests/scripts/m0_instruction_count.py).
+#[inline]
+pub fn log2_q24(x: u32) -> i32 {
+    if x == 0 {
+        return LOG2_OF_ZERO;
+    }
+    let (m, e) = normalize(x);
+    // e ≤ 31 and the mantissa log ≤ 2^24: the sum is < 2^29.
+    (e << 24) + log2_mantissa(m) as i32
+}
+
+/// log2(hi · 2^32 + lo) in Q8.24 (in `0..64 · 2^24`), same error bound as [`log2_q24`]
+/// (the low bits beyond the 32-bit mantissa are dropped, which the bound already allows).
+/// Monotonic non-decreasing in the 64-bit value. 0 gives [`LOG2_OF_ZERO`].
+#[inline]
+pub fn log2_u64_q24(hi: u32, lo: u32) -> i32 {
+    if hi == 0 {
+        return log2_q24(lo);
+    }
+    let (m_hi, e) = normalize(hi); // hi = m_hi · 2^(e − 31), 0 ≤ e ≤ 31
+    let s = (31 - e) as u32; // left shift applied to hi, 0..=31
+    let m = if s == 0 {
+        m_hi
+    } else {
+        m_hi | (lo >> (32 - s))
+    };
+    // value ≈ m · 2^(e + 1): e + 1 + 31 ≤ 63, the sum < 2^30.
+    ((e + 32) << 24) + log2_mantissa(m) as i32
 }
 
 #[cfg(test)]
@@ -122,6 +176,28 @@ mod tests {
         assert_eq!(log2_q24(0), LOG2_OF_ZERO);
         for k in 0..32 {
             assert_eq!(log2_q24(1 << k), k * ONE_Q24, "exact at 2^{k}");
+        }
+    }
+
+    #[test]
+    fn sixteen_bit_logarithm_is_the_same() {
+        for x in 0..=u16::MAX {
+            assert_eq!(log2_u16_q24(x), log2_q24(u32::from(x)), "{x}");
+        }
+    }
+
+    #[test]
+    fn wide_logarithm() {
+        let bound = f64::from(LOG2_MAX_ERROR_Q24) / f64::from(ONE_Q24);
+        assert_eq!(log2_u64_q24(0, 0), LOG2_OF_ZERO);
+        assert_eq!(log2_u64_q24(0, 8), 3 * ONE_Q24);
+        assert_eq!(log2_u64_q24(1, 0), 32 * ONE_Q24);
+        assert_eq!(log2_u64_q24(1 << 30, 0), 62 * ONE_Q24);
+        let mut x: u64 = 1;
+        while x < u64::MAX / 3 {
+            let got = f64::from(log2_u64_q24((x >> 32) as u32, x as u32)) / f64::from(ONE_Q24);
+            assert!((got - libm::log2(x as f64)).abs() <= bound, "{x}");
+            x = x * 3 + 1;
         }
     }
 

@@ -38,6 +38,41 @@ pub const fn mul_hi(a: u32, b: u32) -> u32 {
     mul_wide(a, b).0
 }
 
+/// ⌊a · b / 2^32⌋ less 0, 1 or 2: three 16 × 16 products (the low × low one and the
+/// carries are dropped). Monotonic non-decreasing in `a` for fixed `b`.
+///
+/// Why: LLVM recognises the full four-product pattern of [`mul_hi`] and turns it back into
+/// one `u64` multiply, which on Armv6-M is a call to `__aeabi_lmul`; this truncated form
+/// stays three inline `MULS`. Used for the scalings by constants in the per-reading chain,
+/// where 2 units in the last place are far inside the error budget.
+#[inline]
+pub const fn mul_hi_fast(a: u32, b: u32) -> u32 {
+    let (ah, al) = (a >> 16, a & 0xFFFF);
+    let (bh, bl) = (b >> 16, b & 0xFFFF);
+    // The three terms sum to at most the true high word, < 2^32.
+    (ah * bh)
+        .wrapping_add((ah * bl) >> 16)
+        .wrapping_add((al * bh) >> 16)
+}
+
+/// ⌊x · k / 2^shift⌋ for x < 2^30, a 16-bit factor k and `shift` in `16..=31`, less 0 or 1
+/// (two 16 × 16 products: the floor of each part). Monotonic non-decreasing in `x`.
+/// Used for the scalings by a constant with 16 significant bits (relative precision
+/// 2^-16), two `MULS` instead of three.
+#[inline]
+pub const fn mul_u16_shr(x: u32, k: u16, shift: u32) -> u32 {
+    let k = k as u32;
+    let s = if shift < 16 {
+        16
+    } else if shift > 31 {
+        31
+    } else {
+        shift
+    };
+    // (x >> 16) < 2^14 so the first product is < 2^30; (x & 0xFFFF) · k < 2^32.
+    (((x >> 16) * k) >> (s - 16)).wrapping_add(((x & 0xFFFF) * k) >> s)
+}
+
 /// ⌊a · b / 2^shift⌋ for `shift` in `0..=32`, saturated to `u32::MAX` when it does not fit.
 /// A `shift` above 32 is treated as 32.
 #[inline]
@@ -82,6 +117,50 @@ mod tests {
             for s in 0..=32u32 {
                 let want = u32::try_from(p >> s).unwrap_or(u32::MAX);
                 assert_eq!(mul_shr(a, b, s), want, "{a} {b} {s}");
+            }
+        }
+    }
+
+    #[test]
+    fn fast_high_word_is_within_two_units() {
+        let mut x: u32 = 0x2545_F491;
+        for &(a, b) in VECTORS.iter() {
+            let exact = mul_hi(a, b);
+            let fast = mul_hi_fast(a, b);
+            assert!(fast <= exact && exact - fast <= 2, "{a} {b}");
+        }
+        for _ in 0..100_000 {
+            x ^= x << 13;
+            x ^= x >> 17;
+            x ^= x << 5;
+            let b = x.rotate_left(7);
+            let exact = mul_hi(x, b);
+            let fast = mul_hi_fast(x, b);
+            assert!(fast <= exact && exact - fast <= 2, "{x} {b}");
+            // Monotonic in a, including across a carry into the high half.
+            let up = x | 0xFFFF;
+            if up < u32::MAX {
+                assert!(mul_hi_fast(up, b) <= mul_hi_fast(up + 1, b), "{up} {b}");
+            }
+        }
+    }
+
+    #[test]
+    fn sixteen_bit_scaling() {
+        let mut x: u32 = 0x1357_9BDF;
+        for _ in 0..100_000 {
+            x ^= x << 13;
+            x ^= x >> 17;
+            x ^= x << 5;
+            let a = x >> 2; // < 2^30
+            let k = (x >> 7) as u16;
+            for s in [16u32, 21, 22, 31] {
+                let exact = (u64::from(a) * u64::from(k)) >> s;
+                let got = u64::from(mul_u16_shr(a, k, s));
+                assert!(got <= exact && exact - got <= 1, "{a} {k} {s}");
+            }
+            if a < (1 << 30) - 1 {
+                assert!(mul_u16_shr(a, k, 21) <= mul_u16_shr(a + 1, k, 21));
             }
         }
     }

@@ -129,7 +129,8 @@ pub fn total_loss(matched_loss: Db, gamma_load: Gamma) -> Result<Db, LineError> 
     // |Γin| < |ΓL| < 1 for ML > 0; for ML = 0 they are equal and the terms cancel.
     let inp = log_delivered(g_in).unwrap_or(load);
     let t = ml + inp - load;
-    Ok(Db::new(output(t)?.clamp(ml.min(DB_CEILING), DB_CEILING)))
+    // max/min rather than clamp: clamp's own min ≤ max check would be a panic path.
+    Ok(Db::new(output(t)?.max(ml.min(DB_CEILING)).min(DB_CEILING)))
 }
 
 /// The extra loss the mismatch causes: total loss − matched loss (≥ 0 dB).
@@ -152,6 +153,55 @@ pub fn power_at_load(
     Ok(Watts::new(output(
         p * libm::expf(-ml * LN10_OVER_10) * delivered,
     )?))
+}
+
+/// Everything a user wants to know about the feed line from one SWR reading at the analyzer.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct FeedReport {
+    /// The line's matched (one-way) loss.
+    pub matched_loss: Db,
+    /// The SWR read at the analyzer.
+    pub at_analyzer: Vswr,
+    /// The load (antenna) seen through the line.
+    pub at_load: LoadReading,
+    /// Total loss with the mismatch at the load ([`total_loss`]).
+    pub total_loss: Db,
+}
+
+/// The [`FeedReport`] for a line of known matched loss and an SWR read at the analyzer.
+pub fn feed_report(matched_loss: Db, vswr_at_analyzer: Vswr) -> Result<FeedReport, LineError> {
+    let at_load = swr_at_load(vswr_at_analyzer, matched_loss)?;
+    Ok(FeedReport {
+        matched_loss,
+        at_analyzer: vswr_at_analyzer,
+        at_load,
+        total_loss: total_loss(matched_loss, at_load.gamma)?,
+    })
+}
+
+impl super::propagation::Line {
+    /// The [`FeedReport`] for `length` of this line and an SWR read at the analyzer.
+    pub fn feed_report<U: crate::units::Length>(
+        &self,
+        length: U,
+        vswr_at_analyzer: Vswr,
+    ) -> Result<FeedReport, LineError> {
+        feed_report(self.matched_loss(length)?, vswr_at_analyzer)
+    }
+}
+
+impl super::loss_fit::LossModel {
+    /// The [`FeedReport`] for `length` of cable of this model at `f` and an SWR read at the
+    /// analyzer.
+    pub fn feed_report<U: crate::units::Length>(
+        &self,
+        f: crate::units::Hertz,
+        length: U,
+        vswr_at_analyzer: Vswr,
+    ) -> Result<FeedReport, LineError> {
+        feed_report(self.loss(f, length)?, vswr_at_analyzer)
+    }
 }
 
 #[cfg(test)]
@@ -211,6 +261,16 @@ mod tests {
                 .unwrap()
                 .clamped
         );
+    }
+
+    #[test]
+    fn report() {
+        // SWR 1.5 at the analyzer through 2 dB: |Γin| = 0.2, |ΓL| = 0.2·10^0.2 = 0.317,
+        // SWR 1.928 at the load.
+        let r = feed_report(Db::new(2.0), Vswr::new(1.5).unwrap()).unwrap();
+        assert!((r.at_load.vswr.value() - 1.928).abs() < 1e-3, "{r:?}");
+        assert!(r.total_loss.value() > 2.0 && r.total_loss.value() < 2.5);
+        assert!(feed_report(Db::new(f32::NAN), Vswr::new(1.5).unwrap()).is_err());
     }
 
     #[test]

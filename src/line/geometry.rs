@@ -3,7 +3,8 @@
 //! the conductivity as a parameter (copper by default); dielectric conductance from the loss
 //! tangent.
 //!
-//! Formulas (Pozar, *Microwave Engineering*, 4th ed., Table 2.1 and §1.7; a = inner radius,
+//! Formulas (Pozar, *Microwave Engineering*, 4th ed., Table 2.1, and chapter 1 for the skin depth of a good
+//! conductor; a = inner radius,
 //! b = outer radius, D = centre spacing, d = conductor diameter, ε = ε0·εr):
 //!
 //! | | coaxial | two-wire |
@@ -141,8 +142,8 @@ struct Shape {
     sigma: f32,
 }
 
-/// The lossless constants and the Z0 of a shape: (L, C, Z0) with `l_k` = L·π/μ0 / factor
-/// and `c_k` = C/(π ε) · factor.
+/// L and C per metre of a shape: L = μ0·`l_scale`·factor, C = `c_scale`·ε0·εr/factor
+/// (coax: 1/(2π) and 2π; two-wire: 1/π and π).
 fn lc(shape: &Shape, l_scale: f32, c_scale: f32) -> Result<(f32, f32), LineError> {
     let l = output(MU_0 * l_scale * shape.factor)?;
     let c = output(c_scale * EPSILON_0 * shape.er / shape.factor)?;

@@ -15,10 +15,10 @@
 //! everything is SI per metre.
 //!
 //! Supported: uniform TEM lines, lossy or lossless, quasi-static geometry formulas, skin-effect
-//! conductor loss. Not supported: dispersion of εr or tanδ with frequency, the proximity
-//! effect in coax (it is exact for concentric conductors), conductor roughness, braid
-//! leakage, non-TEM modes above cut-off, the DC regime where the skin depth exceeds the
-//! conductor (see [`geometry::skin_depth`]).
+//! conductor loss (with the proximity factor for two-wire lines). Not supported: dispersion
+//! of εr or tanδ with frequency, conductor roughness, stranding and braid, non-TEM modes
+//! above cut-off, the DC regime where the skin depth exceeds the conductor (see
+//! [`geometry::skin_depth`]).
 //!
 //! Panic policy: no public function panics, and none returns NaN or infinity; bad input gives
 //! a [`LineError`]. Results that are infinite in the mathematics (the input impedance of an
@@ -33,8 +33,12 @@ pub mod loss_fit;
 pub mod propagation;
 pub mod terminated;
 
+/// The complex type of the line APIs (re-exported so callers need no direct dependency).
+pub use num_complex::Complex32;
+
 pub use feed_loss::{
-    power_at_load, return_loss_at_load, swr_at_input, swr_at_load, total_loss, LoadReading,
+    feed_report, power_at_load, return_loss_at_load, swr_at_input, swr_at_load, total_loss,
+    FeedReport, LoadReading,
 };
 pub use geometry::{CoaxGeometry, Dielectric, TwoWireGeometry, COPPER_CONDUCTIVITY};
 pub use loss_fit::{LossModel, LossPoint};

@@ -3,14 +3,14 @@
 //! wavelength on the line and delay per length, beside the low-loss approximations and
 //! their error.
 //!
-//! Method (telegrapher's equations; Pozar, *Microwave Engineering*, 4th ed., §2.1, eqs. 2.5
-//! and 2.7, and §2.7 for the low-loss forms):
+//! Method (telegrapher's equations; Pozar, *Microwave Engineering*, 4th ed., §2.1, and §2.7
+//! for the low-loss forms):
 //!
 //! - Z = R + jωL, Y = G + jωC per metre;
 //! - γ = √(Z·Y) (principal root, computed cancellation-free so that α ≪ β keeps its
 //!   precision), Z0 = Z/γ = √(Z/Y);
 //! - phase velocity ω/β, velocity factor ω/(β·c), wavelength 2π/β, phase delay β/ω;
-//! - low loss: Z0 ≈ √(L/C), β ≈ ω√(LC), α ≈ R/(2Z0) + G·Z0/2 (Pozar eq. 2.85b).
+//! - low loss: Z0 ≈ √(L/C), β ≈ ω√(LC), α ≈ R/(2Z0) + G·Z0/2 (Pozar §2.7).
 //!
 //! Supported: f > 0, L > 0, C > 0, R ≥ 0, G ≥ 0, all finite; the constants may be given per
 //! metre or per foot ([`LineConstants::per`]). Refused with [`LineError`]: f ≤ 0 (a DC line
@@ -24,7 +24,8 @@ use num_complex::Complex32;
 use super::complex_math::{div, is_finite, principal_sqrt};
 use super::{input, non_negative, output, positive, LineError, SPEED_OF_LIGHT};
 use crate::units::{
-    Db, DbPer, Hertz, Length, Meters, MetersPerSecond, NpPer, Ohms, RadPer, SecondsPer,
+    Db, DbPer, FaradsPer, HenriesPer, Hertz, Length, Meters, MetersPerSecond, NpPer, Ohms, OhmsPer,
+    RadPer, SecondsPer, SiemensPer,
 };
 
 /// Results larger than this are reported as [`LineError::Overflow`], which leaves room for
@@ -61,6 +62,42 @@ impl LineConstants {
     pub fn per<U: Length>(r: f32, l: f32, g: f32, c: f32) -> Self {
         let k = 1.0 / U::METERS;
         Self::per_meter(r * k, l * k, g * k, c * k)
+    }
+
+    /// Constants from typed per-length values, in any one length unit `U`, e.g.
+    /// `FaradsPer::<Feet>::new(30.8e-12)`.
+    pub fn new<U: Length>(
+        r: OhmsPer<U>,
+        l: HenriesPer<U>,
+        g: SiemensPer<U>,
+        c: FaradsPer<U>,
+    ) -> Self {
+        Self::per_meter(
+            r.per::<Meters>().value(),
+            l.per::<Meters>().value(),
+            g.per::<Meters>().value(),
+            c.per::<Meters>().value(),
+        )
+    }
+
+    /// R per length unit `U`.
+    pub fn resistance_per<U: Length>(&self) -> OhmsPer<U> {
+        OhmsPer::<Meters>::new(self.resistance).per::<U>()
+    }
+
+    /// L per length unit `U`.
+    pub fn inductance_per<U: Length>(&self) -> HenriesPer<U> {
+        HenriesPer::<Meters>::new(self.inductance).per::<U>()
+    }
+
+    /// G per length unit `U`.
+    pub fn conductance_per<U: Length>(&self) -> SiemensPer<U> {
+        SiemensPer::<Meters>::new(self.conductance).per::<U>()
+    }
+
+    /// C per length unit `U`.
+    pub fn capacitance_per<U: Length>(&self) -> FaradsPer<U> {
+        FaradsPer::<Meters>::new(self.capacitance).per::<U>()
     }
 
     /// The four constants per one length unit `U`, as (R, L, G, C).
@@ -213,6 +250,7 @@ impl Line {
         let w = f.omega();
         // The derived quantities below must be finite too (β tiny against ω).
         limit(output(w / gamma.im)?)?;
+        limit(output(gamma.im / w)?)?;
         limit(output(core::f32::consts::TAU / gamma.im)?)?;
         Ok(Self {
             frequency: f,
@@ -400,6 +438,22 @@ mod tests {
         // α ≈ R/(2Z0) = 1e-3 Np/m at high frequency.
         let line = c.at(Hertz::new(100.0e6)).unwrap();
         assert!((line.attenuation_np::<Meters>().value() - 1e-3).abs() < 1e-3 * WORKED_BOUND);
+    }
+
+    #[test]
+    fn typed_constants() {
+        // 30.8 pF/ft is 101.05 pF/m (÷ 0.3048).
+        let k = LineConstants::new(
+            OhmsPer::<Feet>::new(0.0),
+            HenriesPer::<Feet>::new(77.0e-9),
+            SiemensPer::<Feet>::new(0.0),
+            FaradsPer::<Feet>::new(30.8e-12),
+        );
+        assert!((k.capacitance - 101.05e-12).abs() < 0.01e-12);
+        assert!((k.capacitance_per::<Feet>().value() - 30.8e-12).abs() < 1e-17);
+        assert!((k.inductance_per::<Meters>().value() - 77.0e-9 / 0.3048).abs() < 1e-12);
+        assert_eq!(k.resistance_per::<Feet>().value(), 0.0);
+        assert_eq!(k.conductance_per::<Feet>().value(), 0.0);
     }
 
     #[test]

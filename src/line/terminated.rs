@@ -1,7 +1,7 @@
 //! A lossy line of given length with any load: the reflection coefficient moved along the
 //! line, the input impedance, and embedding / de-embedding a complex Γ reading.
 //!
-//! Relations (Pozar, *Microwave Engineering*, 4th ed., §2.3 eq. 2.35–2.44 and §2.7 eq. 2.91):
+//! Relations (Pozar, *Microwave Engineering*, 4th ed., §2.3 and §2.7):
 //!
 //! - ΓL = (ZL − Z0)/(ZL + Z0), Γin = ΓL·e^(−2γℓ), Zin = Z0·(1 + Γin)/(1 − Γin), which equals
 //!   Z0·(ZL + Z0·tanh γℓ)/(Z0 + ZL·tanh γℓ);

@@ -6,7 +6,7 @@ use embedded_hal::digital::OutputPin;
 use super::alarm::{AlarmEvent, AlarmState, SwrAlarm};
 use super::average::Averager;
 use super::config::{ConfigError, MonitorConfig};
-use super::math::{LineMath, PowerReading};
+use super::math::{LineFigures, LineMath, PowerReading};
 use super::protection::{PinSense, Protection};
 use crate::fixed::{DbQ16, VswrQ16};
 
@@ -45,6 +45,10 @@ pub struct Report {
 pub struct Step {
     /// Readings taken so far, this one included.
     pub sequence: u32,
+    /// VSWR and return loss of this reading alone (not averaged).
+    pub figures: LineFigures,
+    /// False when this reading's forward power is below the gate (idle).
+    pub active: bool,
     /// The alarm changed state on this reading.
     pub event: Option<AlarmEvent>,
     /// A report fell due on this reading.
@@ -133,6 +137,8 @@ impl<M: LineMath, P: OutputPin, const N: usize> Monitor<M, P, N> {
         }
         Step {
             sequence: self.sequence,
+            figures,
+            active,
             event,
             report,
             pin_ok,
@@ -242,6 +248,8 @@ mod tests {
         for r in seq {
             let s = m.update(r);
             assert!(s.pin_ok);
+            assert!(s.active);
+            assert_eq!(s.figures, PowerChain.figures(r));
             if let Some(e) = s.event {
                 events.push((s.sequence, e));
             }

@@ -37,5 +37,5 @@ pub use average::Averager;
 pub use config::{ConfigError, MonitorConfig};
 pub use line_monitor::{Monitor, Report, Step};
 pub use math::{LineFigures, LineMath, PowerReading};
-pub use power_chain::PowerChain;
+pub use power_chain::{PowerChain, GAMMA_BOUND};
 pub use protection::{PinSense, Protection};

@@ -7,9 +7,12 @@
 //! logarithms of 1 ± |Γ| exactly. Textbook relations as in [`crate::reflection`].
 //!
 //! Error: return loss within 2 · [`LOG2_MAX_ERROR_Q24`](crate::fixed::log2::LOG2_MAX_ERROR_Q24)
-//! · 10·log10 2 ≈ 3e-4 dB of the exact value plus the output rounding; VSWR within the fixed
-//! chain's 0.1 % up to VSWR 20 (the error grows as 2/(1 − |Γ|²) near total reflection). Held by
-//! `host-tests/tests/qemu_monitor.rs` and the unit tests below.
+//! · 10·log10 2 ≈ 3e-4 dB of the exact value plus the output rounding; |Γ| within
+//! [`GAMMA_BOUND`] (half the two logarithms' error, ln 2 · 5e-5 = 3.5e-5 relative, plus the
+//! exponential's 16 ppm, plus rounding); hence VSWR within the fixed chain's 0.1 % up to VSWR
+//! 20; above, the VSWR error grows as 2/(1 − |Γ|²) times the |Γ| error. Held by
+//! `host-tests/tests/monitor_chain_sweep.rs`, `monitor_props.rs`, `qemu_monitor.rs` and the unit
+//! tests below.
 //!
 //! Panic policy: nothing here panics; no division, no 64-bit multiply.
 
@@ -18,6 +21,9 @@ use crate::fixed::exp2::exp2_neg_q31;
 use crate::fixed::log2::log2_q24;
 use crate::fixed::relations::db10_from_log2;
 use crate::fixed::{from_gamma, DbQ16, GammaQ31, VswrQ16};
+
+/// Stated bound on the absolute |Γ| error of [`PowerChain`] (|Γ| = √(P_ref/P_fwd)).
+pub const GAMMA_BOUND: f32 = 6.0e-5;
 
 /// The monitor's fixed-point chain for powers in µW. Stateless.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]

@@ -131,6 +131,7 @@ impl<const N: usize> SweepPlan<N> {
             Spacing::Linear => a + t * (b - a),
             Spacing::Logarithmic => a * libm::expf(t * libm::logf(b / a)),
         };
+        // max/min, not clamp: clamp has a panic path when its bounds are not ordered.
         Some(Hertz::new(f.max(a).min(b)))
     }
 

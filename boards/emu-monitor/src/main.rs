@@ -13,6 +13,9 @@
 //! pin seq=.. level=permit|inhibit  pinfail seq=..
 //! end seq=.. trips=.. clears=..
 //! ```
+//! After each `rep` line the same report follows as the project's logger record (`fl.mon …
+//! crc=…`, `feedline::report::line`), with a simulated clock of one reading every
+//! [`READING_PERIOD_MS`].
 #![no_std]
 #![no_main]
 
@@ -23,13 +26,45 @@ use core::fmt::Write;
 use cortex_m_rt::entry;
 use emu_support::semihost;
 use emu_support::Console;
-use feedline::monitor::{AlarmEvent, AlarmState, Monitor, PinSense, PowerChain};
+use feedline::monitor::{AlarmEvent, AlarmState, Monitor, PinSense, PowerChain, Report};
+use feedline::report::record::{RL_CDB_MAX, VSWR_MILLI_MAX};
+use feedline::report::{line, MonitorFlags, MonitorRecord, Record};
 
 use pin::SimPin;
 use scenario::Scenario;
 
 /// Averaging buffer capacity.
 const CAPACITY: usize = 32;
+/// Simulated time between readings, for the logger record's clock.
+const READING_PERIOD_MS: u32 = 10;
+
+/// The monitor report as the logger's line record: powers in whole mW (truncated), VSWR in
+/// thousandths and return loss in hundredths of a dB (rounded), flags Alarm, Trip (the pin is
+/// at inhibit) and Under (forward below the gate).
+fn record(n: u32, r: &Report, inhibited: bool) -> MonitorRecord {
+    let milli = (u64::from(r.vswr.to_bits()) * 1000 + (1 << 15)) >> 16;
+    let cdb = (u64::from(r.return_loss.to_bits().max(0).unsigned_abs()) * 100 + (1 << 15)) >> 16;
+    let mut flags = 0;
+    if r.alarm == AlarmState::Tripped {
+        flags |= MonitorFlags::ALARM;
+    }
+    if inhibited {
+        flags |= MonitorFlags::TRIP;
+    }
+    if !r.transmitting {
+        flags |= MonitorFlags::UNDER;
+    }
+    MonitorRecord {
+        seq: n,
+        time_ms: r.sequence.wrapping_mul(READING_PERIOD_MS),
+        forward_mw: r.forward_uw / 1000,
+        reflected_mw: r.reflected_uw / 1000,
+        delivered_mw: r.delivered_uw / 1000,
+        vswr_milli: (milli as u32).clamp(1000, VSWR_MILLI_MAX),
+        return_loss_cdb: (cdb as u16).min(RL_CDB_MAX),
+        flags: MonitorFlags::from_bits(flags).unwrap_or_default(),
+    }
+}
 
 #[entry]
 fn main() -> ! {
@@ -71,7 +106,7 @@ fn run(uart: &mut Console, sc: &Scenario) -> bool {
                 return false;
             }
         };
-    let (mut trips, mut clears) = (0u32, 0u32);
+    let (mut trips, mut clears, mut reports) = (0u32, 0u32, 0u32);
     for seq in 1..=sc.readings {
         pin.set_sequence(seq);
         let level_before = pin.is_high();
@@ -114,6 +149,9 @@ fn run(uart: &mut Console, sc: &Scenario) -> bool {
                 state_name(r.alarm),
                 r.pin_errors
             );
+            reports += 1;
+            let rec = Record::Monitor(record(reports, &r, !pin.is_high()));
+            let _ = line::write_line_fmt(uart, &rec);
         }
         if sc.reset_at == Some(seq) {
             let (ev, pin_ok) = mon.reset_alarm();

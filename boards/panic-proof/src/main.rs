@@ -40,6 +40,8 @@ mod proof {
     fn prove_fixed() {
         use feedline::fixed::{self, *};
         keep(fixed::log2::log2_q24(input(5000)));
+        keep(fixed::log2::log2_u16_q24(input(5000)));
+        keep(fixed::log2::log2_u64_q24(input(5000), input(123)));
         keep(fixed::exp2::exp2_neg_q31(input(55_000_000)));
         keep(fixed::exp2::exp2_q16(input(55_000_000)));
         keep(fixed::wide::mul_wide(input(123_456), input(654_321)));
@@ -249,6 +251,10 @@ mod proof {
         });
         keep(setup.window.is_valid());
         keep(setup.window.coefficient(input(3), input(32)));
+        let prepared = setup.window.prepare();
+        keep(prepared.coefficient(input(3), input(32)));
+        keep(cos_turns(input(0.3)));
+        keep(sqrt_fast(input(7.0)));
         keep(bessel_i0(input(3.0)));
         if let Ok(r) = transform_in_place(&mut buf, n, &setup) {
             keep(r.kind());
@@ -264,7 +270,11 @@ mod proof {
             for x in r.iter() {
                 keep(x);
             }
-            keep(r.faults::<8>(Db::new(input(30.0)), Meters::new(input(0.5))));
+            keep(r.faults::<8>(&input(FaultSearch {
+                threshold: Db::new(30.0),
+                min_separation: Meters::new(0.5),
+                max_distance: Meters::new(40.0),
+            })));
         }
         let setup_no_loss = input(DtfSetup {
             start: Hertz::new(1.0e6),
@@ -546,6 +556,225 @@ mod proof {
         keep(q.bits());
     }
 
+    /// A protection pin whose writes fail when the optimizer cannot tell.
+    struct ProofPin;
+    impl embedded_hal::digital::ErrorType for ProofPin {
+        type Error = embedded_hal::digital::ErrorKind;
+    }
+    impl embedded_hal::digital::OutputPin for ProofPin {
+        fn set_low(&mut self) -> Result<(), Self::Error> {
+            if input(false) {
+                Err(embedded_hal::digital::ErrorKind::Other)
+            } else {
+                Ok(())
+            }
+        }
+        fn set_high(&mut self) -> Result<(), Self::Error> {
+            self.set_low()
+        }
+    }
+
+    /// A stand-in chain: the monitor's own state machine is proven here apart from
+    /// `PowerChain`. `PowerChain` links in the release proof, but with overflow checks on, the
+    /// plain additions in `fixed::log2` / `fixed::exp2` still leave overflow panic paths; add
+    /// `keep(PowerChain.figures(reading))` here once those use wrapping arithmetic.
+    struct ProofChain;
+    impl feedline::monitor::LineMath for ProofChain {
+        fn figures(&self, r: feedline::monitor::PowerReading) -> feedline::monitor::LineFigures {
+            feedline::monitor::LineFigures {
+                vswr: feedline::fixed::VswrQ16::from_bits(input(r.forward_uw)),
+                return_loss: feedline::fixed::DbQ16::from_bits(input(r.reflected_uw as i32)),
+            }
+        }
+    }
+
+    fn prove_monitor() {
+        use feedline::monitor::{
+            Averager, LineMath, Monitor, MonitorConfig, PinSense, PowerReading, Protection,
+            SwrAlarm,
+        };
+        let reading = PowerReading::new(input(100_000_000), input(4_000_000));
+        keep(reading.delivered_uw());
+        let config = MonitorConfig {
+            hold_off: input(3),
+            clear_count: input(5),
+            averaging: input(8),
+            report_every: input(10),
+            latched: input(false),
+            gate_uw: input(1_000),
+            ..MonitorConfig::DEFAULT
+        };
+        keep(config.validate(input(16)));
+        let mut alarm = SwrAlarm::new();
+        keep(alarm.update(
+            &config,
+            input(true),
+            input(ProofChain.figures(reading).vswr),
+        ));
+        keep(alarm.state());
+        keep(alarm.reset());
+        let mut avg: Averager<16> = Averager::new(input(8));
+        avg.push(reading);
+        keep(avg.mean());
+        keep(avg.len());
+        avg.clear();
+        let mut prot = Protection::new(ProofPin, input(PinSense::PermitHigh));
+        keep(prot.drive(input(feedline::monitor::AlarmState::Tripped)));
+        keep(prot.error_count());
+        if let Ok(mut m) =
+            Monitor::<_, _, 16>::new(config, ProofChain, ProofPin, input(PinSense::PermitLow))
+        {
+            for _ in 0..input(3) {
+                keep(m.update(input(reading)));
+            }
+            keep(m.report_now());
+            keep(m.reset_alarm());
+            keep(m.alarm_state());
+            keep(m.protection().error_count());
+            keep(m.config().hold_off);
+        }
+    }
+
+    fn prove_line() {
+        use feedline::line::Complex32;
+        use feedline::line::{
+            feed_loss, fixed as lfixed, geometry, CoaxGeometry, Dielectric, Line, LineConstants,
+            LossModel, LossPoint, TwoWireGeometry,
+        };
+        use feedline::units::{Celsius, DbPer, Feet};
+        let k = LineConstants::per_meter(input(0.1), input(2.5e-7), input(1e-6), input(1e-10));
+        let f = Hertz::new(input(14.0e6));
+        keep(LineConstants::per::<Feet>(
+            input(0.03),
+            input(7.7e-8),
+            input(0.0),
+            input(3.08e-11),
+        ));
+        keep(k.values_per::<Feet>());
+        keep(k.resistance_per::<Feet>());
+        keep(k.low_loss(f));
+        keep(k.approximation_error(f));
+        if let Ok(e) = k.approximation_error(f) {
+            keep(e.worst());
+        }
+        let z = Complex32::new(input(30.0), input(-12.0));
+        let g = Complex32::new(input(0.3), input(0.1));
+        let len = Meters::new(input(12.0));
+        let lines = [
+            k.at(f),
+            Line::new::<Meters>(f, z, g),
+            Line::from_datasheet(
+                f,
+                Ohms::new(input(50.0)),
+                input(0.66),
+                DbPer::<Feet>::new(input(0.02)),
+            ),
+        ];
+        for line in lines.into_iter().flatten() {
+            keep(line.characteristic_impedance());
+            keep(line.propagation_constant::<Feet>());
+            keep(line.attenuation::<Feet>());
+            keep(line.attenuation_np::<Meters>());
+            keep(line.phase_constant::<Meters>());
+            keep(line.phase_velocity());
+            keep(line.velocity_factor());
+            keep(line.wavelength::<Feet>());
+            keep(line.delay::<Meters>());
+            keep(line.matched_loss(Feet::new(input(100.0))));
+            keep(line.load_reflection(z));
+            keep(line.gamma_at_input(g, len));
+            keep(line.gamma_at_load(g, len));
+            keep(line.input_impedance(z, len));
+            keep(line.input_impedance_from_gamma(g, len));
+            keep(line.embed(g, len, Ohms::new(input(50.0))));
+            keep(line.deembed(g, len, Ohms::new(input(50.0))));
+            keep(line.feed_report(len, Gamma::saturating(input(0.2)).vswr()));
+        }
+        let diel = Dielectric {
+            relative_permittivity: input(2.25),
+            loss_tangent: input(2e-4),
+        };
+        let c = CoaxGeometry::new(
+            Meters::new(input(0.9e-3)),
+            Meters::new(input(2.95e-3)),
+            diel,
+        )
+        .with_conductivity(input(5.8e7));
+        keep(c.characteristic_impedance());
+        keep(c.velocity_factor());
+        keep(c.lossless_constants());
+        keep(c.constants_at(f));
+        keep(c.line_at(f));
+        keep(c.skin_effect_holds(f));
+        let t = TwoWireGeometry::new(Meters::new(input(1.0e-3)), Meters::new(input(8.0e-3)), diel)
+            .with_conductivity(input(5.8e7));
+        keep(t.characteristic_impedance());
+        keep(t.velocity_factor());
+        keep(t.lossless_constants());
+        keep(t.constants_at(f));
+        keep(t.line_at(f));
+        keep(t.skin_effect_holds(f));
+        keep(diel.velocity_factor());
+        keep(geometry::skin_depth(f, input(5.8e7)));
+        keep(geometry::surface_resistance(f, input(5.8e7)));
+
+        let pts = input([
+            LossPoint::new(Hertz::new(10e6), DbPer::<Feet>::new(0.012)),
+            LossPoint::new(Hertz::new(100e6), DbPer::<Feet>::new(0.04)),
+            LossPoint::new(Hertz::new(1e9), DbPer::<Feet>::new(0.14)),
+        ]);
+        keep(LossPoint::from_loss(
+            f,
+            Db::new(input(2.0)),
+            Feet::new(input(100.0)),
+        ));
+        let models = [
+            LossModel::least_squares(&pts),
+            LossModel::from_two_points(&pts[0], &pts[2]),
+            LossModel::new::<Feet>(input(0.004), input(2e-5)),
+        ];
+        for m in models.into_iter().flatten() {
+            keep(m.k1::<Feet>());
+            keep(m.k2::<Meters>());
+            keep(m.attenuation::<Feet>(f));
+            keep(m.conductor_part::<Meters>(f));
+            keep(m.loss(f, len));
+            keep(m.at_temperature(
+                Celsius::new(input(20.0)),
+                Celsius::new(input(45.0)),
+                input(0.0039),
+            ));
+            keep(m.worst_relative_error(&pts));
+            keep(m.line_at(f, Ohms::new(input(50.0)), input(0.66)));
+            keep(m.feed_report(f, len, Gamma::MATCHED.vswr()));
+        }
+
+        let ml = Db::new(input(2.0));
+        let gm = Gamma::saturating(input(0.4));
+        let vs = gm.vswr();
+        keep(feed_loss::gamma_at_load(gm, ml));
+        keep(feed_loss::gamma_at_input(gm, ml));
+        keep(feed_loss::swr_at_load(vs, ml));
+        keep(feed_loss::swr_at_input(vs, ml));
+        keep(feed_loss::return_loss_at_load(Db::new(input(12.0)), ml));
+        keep(feed_loss::total_loss(ml, gm));
+        keep(feed_loss::additional_loss(ml, gm));
+        keep(feed_loss::power_at_load(Watts::new(input(100.0)), ml, gm));
+        keep(feed_loss::feed_report(ml, vs));
+
+        let a = feedline::fixed::DbQ16::from_bits(input(7 << 16));
+        let b = feedline::fixed::DbQ16::from_bits(input(1 << 16));
+        let s = feedline::fixed::VswrQ16::from_bits(input(3 << 16));
+        keep(lfixed::matched_loss_from_open_short(a));
+        keep(lfixed::swr_to_return_loss(s));
+        keep(lfixed::return_loss_to_swr(a));
+        keep(lfixed::return_loss_at_load(a, b));
+        keep(lfixed::swr_at_load(s, b));
+        keep(lfixed::swr_at_input(s, b));
+        keep(lfixed::total_loss_from_return_loss(b, a));
+        keep(lfixed::total_loss(b, s));
+    }
+
     #[cortex_m_rt::entry]
     fn main() -> ! {
         prove_units();
@@ -560,6 +789,8 @@ mod proof {
         prove_dtf();
         prove_analysis();
         prove_sweep_plan();
+        prove_monitor();
+        prove_line();
         #[cfg(feature = "canary")]
         {
             let table = input([1u8; 4]);

@@ -8,7 +8,7 @@
 //! - geometry: Pozar Table 2.1; two-wire proximity factor (Ramo, Whinnery & Van Duzer, from
 //!   memory); skin depth δ = 1/√(π f μ0 σ);
 //! - input impedance in the tanh form Zin = Z0·(ZL + Z0·tanh γℓ)/(Z0 + ZL·tanh γℓ) (Pozar
-//!   eq. 2.91) — a different formulation from the core's Γ-based one;
+//!   §2.7) — a different formulation from the core's Γ-based one;
 //! - embedding through impedances: Γ → Z in Zref → Zin through the line → Γ in Zref;
 //! - total loss: the handbook expression 10·log10[(A² − |ΓL|²)/(A·(1 − |ΓL|²))] evaluated
 //!   directly (ARRL Antenna Book, from memory).

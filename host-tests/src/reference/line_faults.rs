@@ -67,10 +67,16 @@ impl FaultyLine {
 
     /// Γ at the input at frequency f.
     pub fn gamma(&self, f: f64) -> Complex64 {
+        self.gamma_with_end(f, self.end_gamma)
+    }
+
+    /// Γ at the input at frequency f with the far end's reflection `end` at that frequency
+    /// (for a frequency-dependent load such as an antenna).
+    pub fn gamma_with_end(&self, f: f64, end: Complex64) -> Complex64 {
         let alpha = self.alpha_db(f) / (20.0 / std::f64::consts::LN_10);
         let beta = 2.0 * PI * f / (self.vf * C0);
         let gam = Complex64::new(alpha, beta);
-        let mut g = self.end_gamma;
+        let mut g = end;
         let mut pos = self.length;
         for d in self.faults.iter().rev() {
             g *= (-2.0 * gam * (pos - d.distance)).exp();

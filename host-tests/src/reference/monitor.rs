@@ -157,6 +157,8 @@ pub struct Report {
     pub tripped: bool,
     /// Failed pin writes so far.
     pub pin_errors: u32,
+    /// The protection pin is at inhibit when the report is made.
+    pub inhibited: bool,
 }
 
 /// Everything a run produces.
@@ -170,6 +172,8 @@ pub struct Run {
     pub pin_failures: Vec<u32>,
     /// Reports.
     pub reports: Vec<Report>,
+    /// The line's (forward, reflected) power of every reading, µW.
+    pub readings: Vec<(f64, f64)>,
     /// Smallest relative distance of an active reading's VSWR from a threshold it was compared
     /// with, and of a report's mean forward power from the gate: a check is only meaningful
     /// when this exceeds the chain's error.
@@ -245,6 +249,7 @@ pub fn simulate(s: &Scenario) -> Run {
         let refl = (fwd * f64::from(ppm.min(1_000_000)) / 1e6).floor();
         let active = fwd >= gate_uw;
         let (vswr, _) = figures(fwd, refl);
+        run.readings.push((fwd, refl));
 
         // alarm
         if !tripped {
@@ -318,6 +323,7 @@ pub fn simulate(s: &Scenario) -> Run {
                     peak_vswr,
                     tripped,
                     pin_errors,
+                    inhibited: !permit,
                 });
                 since = 0;
                 peak_fwd = 0.0;
