@@ -61,7 +61,14 @@ pub fn cos_turns(t: f32) -> f32 {
         return 1.0;
     }
     let r = t - libm::floorf(t + 0.5);
-    let a = libm::fabsf(r).min(0.5);
+    let a = libm::fabsf(r);
+    cos_half_turn(if a < 0.5 { a } else { 0.5 })
+}
+
+/// cos(2π·a) for a in 0..=0.5 (the polynomial part of [`cos_turns`], shared by the window
+/// loop, which only evaluates the first half of a symmetric window and needs no reduction).
+#[inline]
+fn cos_half_turn(a: f32) -> f32 {
     let quarter = core::f32::consts::FRAC_PI_2;
     let cos_p = |y: f32| {
         let y2 = y * y;
@@ -81,6 +88,37 @@ pub fn cos_turns(t: f32) -> f32 {
     } else {
         -cos_p(core::f32::consts::PI - y)
     }
+}
+
+/// The number of power-series terms of I0 that [`bessel_i0`] sums at `x`: the same stopping
+/// rule (term below 1e-8 of the sum), at most 200.
+fn i0_terms(x: f32) -> u32 {
+    let h2 = 0.25 * x * x;
+    let (mut term, mut sum, mut m) = (1.0f32, 1.0f32, 1.0f32);
+    let mut n = 0u32;
+    while n < 200 {
+        n += 1;
+        term *= h2 / (m * m);
+        sum += term;
+        if term < 1.0e-8 * sum {
+            break;
+        }
+        m += 1.0;
+    }
+    n
+}
+
+/// I0 from h2 = (x/2)² by the first `terms` + 1 terms of its power series in Horner form,
+/// 1 + h2/1²·(1 + h2/2²·(1 + …)): the series of [`bessel_i0`] without its per-term test.
+#[inline]
+fn i0_horner(h2: f32, terms: u32) -> f32 {
+    let mut s = 1.0f32;
+    let mut m = terms as f32;
+    for _ in 0..terms {
+        s = 1.0 + s * (h2 / (m * m));
+        m -= 1.0;
+    }
+    s
 }
 
 /// Bound on |cos_turns(t) − cos(2πt)| (measured over 0..=1 in steps of 1e-5 by the unit
@@ -104,22 +142,24 @@ impl Window {
     /// The window with its per-sweep constant (I0(β) for Kaiser) worked out once, for
     /// evaluating many coefficients.
     pub fn prepare(&self) -> PreparedWindow {
-        let (beta, inv_i0_beta) = match *self {
+        let (beta, inv_i0_beta, terms) = match *self {
             Window::Kaiser { beta } => {
                 let beta = if beta.is_finite() {
                     beta.clamp(0.0, KAISER_BETA_MAX)
                 } else {
                     0.0
                 };
-                // I0(β) ≥ 1, so the reciprocal is in (0, 1].
-                (beta, 1.0 / bessel_i0(beta))
+                // I0(β) ≥ 1, so the reciprocal is in (0, 1]. The argument of I0 never
+                // exceeds β, so β's term count serves every coefficient.
+                (beta, 1.0 / bessel_i0(beta), i0_terms(beta))
             }
-            _ => (0.0, 1.0),
+            _ => (0.0, 1.0, 0),
         };
         PreparedWindow {
             window: *self,
             beta,
             inv_i0_beta,
+            terms,
         }
     }
 }
@@ -131,6 +171,7 @@ pub struct PreparedWindow {
     window: Window,
     beta: f32,
     inv_i0_beta: f32,
+    terms: u32,
 }
 
 impl PreparedWindow {
@@ -143,14 +184,32 @@ impl PreparedWindow {
             return 1.0;
         }
         let x = k as f32 / (n - 1) as f32;
-        match self.window {
-            Window::Rectangular => 1.0,
-            Window::Hann => (0.5 * (1.0 - cos_turns(x))).clamp(0.0, 1.0),
+        self.at_half(if x <= 0.5 { x } else { 1.0 - x })
+    }
+
+    /// The window at x = k/(N − 1) for x in 0..=0.5 (its first half; the windows are
+    /// symmetric about 0.5), in 0..=1.
+    #[inline]
+    pub(super) fn at_half(&self, x: f32) -> f32 {
+        let w = match self.window {
+            Window::Rectangular => return 1.0,
+            Window::Hann => 0.5 * (1.0 - cos_half_turn(x)),
             Window::Kaiser { .. } => {
-                let u = 2.0 * x - 1.0;
-                let arg = self.beta * crate::dtf::sqrt_fast((1.0 - u * u).max(0.0));
-                (bessel_i0(arg) * self.inv_i0_beta).clamp(0.0, 1.0)
+                // I0(β·√(1 − u²)) with u = 2x − 1: its series needs only (β/2)²·(1 − u²)
+                // = β²·x·(1 − x), so no square root.
+                let h2 = self.beta * self.beta * (x * (1.0 - x));
+                let h2 = if h2 > 0.0 { h2 } else { 0.0 };
+                i0_horner(h2, self.terms) * self.inv_i0_beta
             }
+        };
+        if w > 0.0 {
+            if w < 1.0 {
+                w
+            } else {
+                1.0
+            }
+        } else {
+            0.0
         }
     }
 }
