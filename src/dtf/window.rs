@@ -96,7 +96,7 @@ fn i0_terms(x: f32) -> u32 {
     let h2 = 0.25 * x * x;
     let (mut term, mut sum, mut m) = (1.0f32, 1.0f32, 1.0f32);
     let mut n = 0u32;
-    while n < 200 {
+    while n < I0_TERMS_MAX as u32 {
         n += 1;
         term *= h2 / (m * m);
         sum += term;
@@ -108,15 +108,30 @@ fn i0_terms(x: f32) -> u32 {
     n
 }
 
+/// The most series terms [`i0_terms`] returns.
+const I0_TERMS_MAX: usize = 200;
+
+/// 1/m² for m = 1..=[`I0_TERMS_MAX`]: the ratios of successive I0 series terms over (x/2)².
+const INV_SQUARES: [f32; I0_TERMS_MAX] = {
+    let mut t = [0.0f32; I0_TERMS_MAX];
+    let mut i = 0;
+    while i < I0_TERMS_MAX {
+        let m = (i + 1) as f32;
+        t[i] = 1.0 / (m * m);
+        i += 1;
+    }
+    t
+};
+
 /// I0 from h2 = (x/2)² by the first `terms` + 1 terms of its power series in Horner form,
 /// 1 + h2/1²·(1 + h2/2²·(1 + …)): the series of [`bessel_i0`] without its per-term test.
 #[inline]
 fn i0_horner(h2: f32, terms: u32) -> f32 {
+    let n = (terms as usize).min(I0_TERMS_MAX);
+    let ratios = INV_SQUARES.get(..n).unwrap_or(&INV_SQUARES);
     let mut s = 1.0f32;
-    let mut m = terms as f32;
-    for _ in 0..terms {
-        s = 1.0 + s * (h2 / (m * m));
-        m -= 1.0;
+    for r in ratios.iter().rev() {
+        s = 1.0 + s * (h2 * r);
     }
     s
 }
