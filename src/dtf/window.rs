@@ -36,20 +36,8 @@ pub enum Window {
 
 /// I0(x) by its power series (Abramowitz and Stegun 9.6.10). Finite for |x| ≤ 90.
 pub fn bessel_i0(x: f32) -> f32 {
-    let h2 = 0.25 * x * x;
-    let mut term = 1.0f32;
-    let mut sum = 1.0f32;
-    let mut m = 1.0f32;
     // Converges for every finite x; 200 terms reach 1e-8 relative for |x| ≤ 100.
-    for _ in 0..200 {
-        term *= h2 / (m * m);
-        sum += term;
-        if term < 1.0e-8 * sum {
-            break;
-        }
-        m += 1.0;
-    }
-    sum
+    i0_and_terms(x).0
 }
 
 /// cos(2π·t) in f32 without f64 arithmetic (libm's `cosf` works in f64, which is slow
@@ -90,9 +78,9 @@ fn cos_half_turn(a: f32) -> f32 {
     }
 }
 
-/// The number of power-series terms of I0 that [`bessel_i0`] sums at `x`: the same stopping
-/// rule (term below 1e-8 of the sum), at most 200.
-fn i0_terms(x: f32) -> u32 {
+/// I0(x) by [`bessel_i0`]'s series and the number of terms it summed (at most
+/// [`I0_TERMS_MAX`]).
+fn i0_and_terms(x: f32) -> (f32, u32) {
     let h2 = 0.25 * x * x;
     let (mut term, mut sum, mut m) = (1.0f32, 1.0f32, 1.0f32);
     let mut n = 0u32;
@@ -105,7 +93,7 @@ fn i0_terms(x: f32) -> u32 {
         }
         m += 1.0;
     }
-    n
+    (sum, n)
 }
 
 /// The most series terms [`i0_terms`] returns.
@@ -169,7 +157,8 @@ impl Window {
                 };
                 // I0(β) ≥ 1, so the reciprocal is in (0, 1]. The argument of I0 never
                 // exceeds β, so β's term count serves every coefficient.
-                (beta, 1.0 / bessel_i0(beta), i0_terms(beta))
+                let (i0_beta, terms) = i0_and_terms(beta);
+                (beta, 1.0 / i0_beta, terms)
             }
             _ => (0.0, 1.0, 0),
         };
