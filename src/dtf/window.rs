@@ -12,7 +12,9 @@
 //!
 //! I0 is the modified Bessel function of the first kind, order 0, summed from its power series
 //! I0(x) = Σ ((x/2)^m / m!)² (Abramowitz and Stegun 9.6.10) until the term falls below 1e-8
-//! of the sum.
+//! of the sum. For the window the series is taken in Horner form with the term count of I0(β)
+//! (the argument never exceeds β), and (x/2)² = β²·x·(1 − x) for x = k/(N − 1), so no square
+//! root is needed; Hann and Kaiser are evaluated for the first half only (both are symmetric).
 
 /// The largest Kaiser β accepted (I0(50) ≈ 3e20 still fits f32 comfortably).
 pub const KAISER_BETA_MAX: f32 = 50.0;
