@@ -54,9 +54,11 @@ impl LossCoefficients {
 
 impl AttenuationModel for LossCoefficients {
     /// α at `f`; 0 for a negative or non-finite frequency; capped at `f32::MAX`.
+    #[inline]
     fn db_per_meter(&self, f: Hertz) -> f32 {
         let mhz = f.value() * 1.0e-6;
-        if !mhz.is_finite() || mhz < 0.0 {
+        // Two comparisons (false for NaN) instead of a bit-level finiteness test.
+        if !(0.0..=f32::MAX).contains(&mhz) {
             return 0.0;
         }
         let a = self.k1 * sqrt_fast(mhz) + self.k2 * mhz;
@@ -73,14 +75,17 @@ impl AttenuationModel for LossCoefficients {
 /// e.g. Lomont, "Fast inverse square root", 2003), then √x = x·y. About 15 instructions on a
 /// single-precision FPU against about 76 for `libm::sqrtf`, which is all software.
 /// Relative error below [`SQRT_FAST_BOUND`]; 0 for x below 1e-30 or not finite.
+#[inline]
 pub fn sqrt_fast(x: f32) -> f32 {
-    if !x.is_finite() || x < 1.0e-30 {
+    // Two comparisons (false for NaN) instead of a bit-level finiteness test.
+    if !(1.0e-30..=f32::MAX).contains(&x) {
         return 0.0;
     }
     let mut y = f32::from_bits(0x5f37_59df_u32.wrapping_sub(x.to_bits() >> 1));
-    for _ in 0..3 {
-        y *= 1.5 - 0.5 * x * y * y;
-    }
+    let half_x = 0.5 * x;
+    y *= 1.5 - half_x * y * y;
+    y *= 1.5 - half_x * y * y;
+    y *= 1.5 - half_x * y * y;
     x * y
 }
 

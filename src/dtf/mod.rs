@@ -26,13 +26,25 @@
 //!
 //! RAM: the caller's buffer of M `Complex32` (8·M bytes: 8 KiB for 256 points into 1024 bins)
 //! holds the sweep on entry and the response on return; [`DtfResponse`] is a borrowed view of
-//! a few words; a fault list of P faults is 16·P bytes. Stack below the caller: 264 bytes
-//! (transform and fault list, measured by stack painting on the emulated Cortex-M4F).
+//! a few words; a fault list of P faults is 16·P bytes. Stack below the caller: 496 bytes
+//! for the transform and one read (`cargo bench-fw`, stack painting on the emulated
+//! Cortex-M4F), so 256 points into 1024 bins take 8.5 KiB in all.
 //!
-//! Cost, 256 points into 1024 bins, instructions traced on QEMU's mps2-an386 (Cortex-M4F,
-//! release build, opt-level "s"): rectangular 136 k, Hann 146 k, Hann with
-//! [`LossCoefficients`] 160 k, Kaiser β = 6 with [`LossCoefficients`] 177 k; the fault list
-//! 48 k more. Of these the FFT takes about 94 k (butterflies) + 26 k (bit reversal).
+//! Cost, 256 points into 1024 bins, transform alone, instructions traced on QEMU's
+//! mps2-an386 (Cortex-M4F, release build, opt-level "s"):
+//!
+//! | window | no loss model | with [`LossCoefficients`] |
+//! |---|---:|---:|
+//! | rectangular | 120 k | 132 k |
+//! | Hann | 125 k | 137 k |
+//! | Kaiser β = 6 | 136 k | 149 k |
+//!
+//! The FFT is 111 k of that (microfft: butterflies, and about 24 k of bit reversal with the
+//! smallest stages); the one pass that checks, windows and conjugates the sweep and gathers
+//! the loss moments about 9 k, the two-term loss model (one [`sqrt_fast`]) about 48 per
+//! point, a Hann coefficient about 40 and a Kaiser β = 6 coefficient about 130 (I0 summed
+//! in Horner form over a fixed term count; only the first half of the symmetric window is
+//! evaluated). The fault list takes about 48 k more.
 //!
 //! Scalar sweeps ([`scalar_transform_in_place`]): from |Γ| alone the phase is lost. The
 //! transform of |Γ|²(f) shows the *separations* between pairs of reflections (for the usual

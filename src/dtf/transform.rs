@@ -155,33 +155,56 @@ pub fn transform_in_place<'a, L: AttenuationModel>(
     setup: &DtfSetup<L>,
 ) -> Result<DtfResponse<'a>, DtfError> {
     let c = check(buf.len(), points, setup)?;
-    let (mut sum_w, mut sum_wa, mut sum_wa2) = (0.0f32, 0.0f32, 0.0f32);
     let f0 = setup.start.value();
-    // The window is symmetric: compute w_k once for the pair (k, N − 1 − k).
+    let df = c.df;
     let window = setup.window.prepare();
-    for k in 0..points.div_ceil(2) {
-        let w = window.coefficient(k, points);
-        let mirror = points - 1 - k;
-        for idx in [k, mirror] {
-            let x = buf.get_mut(idx).ok_or(DtfError::BadLength)?;
-            if !x.re.is_finite() || !x.im.is_finite() {
-                return Err(DtfError::NotFinite);
-            }
-            let alpha = setup.loss.db_per_meter(Hertz::new(f0 + idx as f32 * c.df));
-            if !alpha.is_finite() || alpha < 0.0 {
-                return Err(DtfError::BadLoss);
-            }
-            // Conjugate while windowing: |IDFT(x)| = |DFT(conj x)|.
-            *x = Complex32::new(x.re * w, -x.im * w);
-            sum_w += w;
-            sum_wa += w * alpha;
-            sum_wa2 += w * alpha * alpha;
-            if mirror == k {
-                break;
-            }
+    // points ≥ 2 (checked), so the divisor is ≥ 1.
+    let inv_last = 1.0 / (points - 1) as f32;
+    let (mut sum_w, mut sum_wa, mut sum_wa2) = (0.0f32, 0.0f32, 0.0f32);
+    // Stays 0 while every sample and α is finite (x·0 is NaN for an infinite or NaN x), so
+    // one test after the loop replaces two per value.
+    let mut probe = 0.0f32;
+    let mut negative_loss = false;
+    let (head, tail) = buf
+        .split_at_mut_checked(points)
+        .ok_or(DtfError::TooFewPoints)?;
+    // The window is symmetric: w_k serves the pair (k, N − 1 − k). `lo` holds k < ⌈N/2⌉,
+    // `hi` the rest, walked backwards so that its j-th element is N − 1 − j.
+    let (lo, hi) = head
+        .split_at_mut_checked(points.div_ceil(2))
+        .ok_or(DtfError::TooFewPoints)?;
+    let mut step = |x: &mut Complex32, idx: usize, w: f32| {
+        let alpha = setup.loss.db_per_meter(Hertz::new(f0 + idx as f32 * df));
+        probe += x.re * 0.0 + x.im * 0.0 + alpha * 0.0;
+        negative_loss |= alpha < 0.0;
+        // Conjugate while windowing: |IDFT(x)| = |DFT(conj x)|.
+        *x = Complex32::new(x.re * w, -x.im * w);
+        let wa = w * alpha;
+        sum_w += w;
+        sum_wa += wa;
+        sum_wa2 += wa * alpha;
+    };
+    let mut mirrors = hi.iter_mut().rev();
+    for (k, x) in lo.iter_mut().enumerate() {
+        let w = window.at_half(k as f32 * inv_last);
+        step(x, k, w);
+        if let Some(y) = mirrors.next() {
+            step(y, points - 1 - k, w);
         }
     }
-    for x in buf.iter_mut().skip(points) {
+    if probe != 0.0 {
+        // NaN: a sample or α was not finite. Tell which.
+        let bad_sample = head.iter().any(|x| !x.re.is_finite() || !x.im.is_finite());
+        return Err(if bad_sample {
+            DtfError::NotFinite
+        } else {
+            DtfError::BadLoss
+        });
+    }
+    if negative_loss {
+        return Err(DtfError::BadLoss);
+    }
+    for x in tail.iter_mut() {
         *x = Complex32::new(0.0, 0.0);
     }
     let moments = if sum_w > 0.0 {

@@ -12,7 +12,9 @@
 //!
 //! I0 is the modified Bessel function of the first kind, order 0, summed from its power series
 //! I0(x) = Σ ((x/2)^m / m!)² (Abramowitz and Stegun 9.6.10) until the term falls below 1e-8
-//! of the sum.
+//! of the sum. For the window the series is taken in Horner form with the term count of I0(β)
+//! (the argument never exceeds β), and (x/2)² = β²·x·(1 − x) for x = k/(N − 1), so no square
+//! root is needed; Hann and Kaiser are evaluated for the first half only (both are symmetric).
 
 /// The largest Kaiser β accepted (I0(50) ≈ 3e20 still fits f32 comfortably).
 pub const KAISER_BETA_MAX: f32 = 50.0;
@@ -36,20 +38,8 @@ pub enum Window {
 
 /// I0(x) by its power series (Abramowitz and Stegun 9.6.10). Finite for |x| ≤ 90.
 pub fn bessel_i0(x: f32) -> f32 {
-    let h2 = 0.25 * x * x;
-    let mut term = 1.0f32;
-    let mut sum = 1.0f32;
-    let mut m = 1.0f32;
     // Converges for every finite x; 200 terms reach 1e-8 relative for |x| ≤ 100.
-    for _ in 0..200 {
-        term *= h2 / (m * m);
-        sum += term;
-        if term < 1.0e-8 * sum {
-            break;
-        }
-        m += 1.0;
-    }
-    sum
+    i0_and_terms(x).0
 }
 
 /// cos(2π·t) in f32 without f64 arithmetic (libm's `cosf` works in f64, which is slow
@@ -61,7 +51,14 @@ pub fn cos_turns(t: f32) -> f32 {
         return 1.0;
     }
     let r = t - libm::floorf(t + 0.5);
-    let a = libm::fabsf(r).min(0.5);
+    let a = libm::fabsf(r);
+    cos_half_turn(if a < 0.5 { a } else { 0.5 })
+}
+
+/// cos(2π·a) for a in 0..=0.5 (the polynomial part of [`cos_turns`], shared by the window
+/// loop, which only evaluates the first half of a symmetric window and needs no reduction).
+#[inline]
+fn cos_half_turn(a: f32) -> f32 {
     let quarter = core::f32::consts::FRAC_PI_2;
     let cos_p = |y: f32| {
         let y2 = y * y;
@@ -81,6 +78,55 @@ pub fn cos_turns(t: f32) -> f32 {
     } else {
         -cos_p(core::f32::consts::PI - y)
     }
+}
+
+/// I0(x) by [`bessel_i0`]'s series and the number of terms it summed (at most
+/// [`I0_TERMS_MAX`]).
+fn i0_and_terms(x: f32) -> (f32, u32) {
+    let h2 = 0.25 * x * x;
+    let (mut term, mut sum, mut m) = (1.0f32, 1.0f32, 1.0f32);
+    let mut n = 0u32;
+    while n < I0_TERMS_MAX as u32 {
+        n += 1;
+        term *= h2 / (m * m);
+        sum += term;
+        if term < 1.0e-8 * sum {
+            break;
+        }
+        m += 1.0;
+    }
+    (sum, n)
+}
+
+/// The most series terms [`i0_terms`] returns.
+const I0_TERMS_MAX: usize = 200;
+
+/// 1/m² for m = 1..=[`I0_TERMS_MAX`]: the ratios of successive I0 series terms over (x/2)².
+const INV_SQUARES: [f32; I0_TERMS_MAX] = {
+    let mut t = [0.0f32; I0_TERMS_MAX];
+    let mut i = 0;
+    while i < I0_TERMS_MAX {
+        let m = (i + 1) as f32;
+        t[i] = 1.0 / (m * m);
+        i += 1;
+    }
+    t
+};
+
+/// I0 from h2 = (x/2)² by the first `terms` + 1 terms of its power series in Horner form,
+/// 1 + h2/1²·(1 + h2/2²·(1 + …)): the series of [`bessel_i0`] without its per-term test.
+#[inline]
+fn i0_horner(h2: f32, terms: u32) -> f32 {
+    let n = (terms as usize).min(I0_TERMS_MAX);
+    let ratios = INV_SQUARES.get(..n).unwrap_or(&INV_SQUARES);
+    // u = s − 1 runs the same recurrence, s ← 1 + t·s with t = h2/m², as u ← t + t·u: one
+    // multiply-accumulate per term with no constant to reload.
+    let mut u = 0.0f32;
+    for r in ratios.iter().rev() {
+        let t = h2 * r;
+        u = t + t * u;
+    }
+    1.0 + u
 }
 
 /// Bound on |cos_turns(t) − cos(2πt)| (measured over 0..=1 in steps of 1e-5 by the unit
@@ -104,22 +150,25 @@ impl Window {
     /// The window with its per-sweep constant (I0(β) for Kaiser) worked out once, for
     /// evaluating many coefficients.
     pub fn prepare(&self) -> PreparedWindow {
-        let (beta, inv_i0_beta) = match *self {
+        let (beta, inv_i0_beta, terms) = match *self {
             Window::Kaiser { beta } => {
                 let beta = if beta.is_finite() {
                     beta.clamp(0.0, KAISER_BETA_MAX)
                 } else {
                     0.0
                 };
-                // I0(β) ≥ 1, so the reciprocal is in (0, 1].
-                (beta, 1.0 / bessel_i0(beta))
+                // I0(β) ≥ 1, so the reciprocal is in (0, 1]. The argument of I0 never
+                // exceeds β, so β's term count serves every coefficient.
+                let (i0_beta, terms) = i0_and_terms(beta);
+                (beta, 1.0 / i0_beta, terms)
             }
-            _ => (0.0, 1.0),
+            _ => (0.0, 1.0, 0),
         };
         PreparedWindow {
             window: *self,
             beta,
             inv_i0_beta,
+            terms,
         }
     }
 }
@@ -131,6 +180,7 @@ pub struct PreparedWindow {
     window: Window,
     beta: f32,
     inv_i0_beta: f32,
+    terms: u32,
 }
 
 impl PreparedWindow {
@@ -143,14 +193,32 @@ impl PreparedWindow {
             return 1.0;
         }
         let x = k as f32 / (n - 1) as f32;
-        match self.window {
-            Window::Rectangular => 1.0,
-            Window::Hann => (0.5 * (1.0 - cos_turns(x))).clamp(0.0, 1.0),
+        self.at_half(if x <= 0.5 { x } else { 1.0 - x })
+    }
+
+    /// The window at x = k/(N − 1) for x in 0..=0.5 (its first half; the windows are
+    /// symmetric about 0.5), in 0..=1.
+    #[inline]
+    pub(super) fn at_half(&self, x: f32) -> f32 {
+        let w = match self.window {
+            Window::Rectangular => return 1.0,
+            Window::Hann => 0.5 * (1.0 - cos_half_turn(x)),
             Window::Kaiser { .. } => {
-                let u = 2.0 * x - 1.0;
-                let arg = self.beta * crate::dtf::sqrt_fast((1.0 - u * u).max(0.0));
-                (bessel_i0(arg) * self.inv_i0_beta).clamp(0.0, 1.0)
+                // I0(β·√(1 − u²)) with u = 2x − 1: its series needs only (β/2)²·(1 − u²)
+                // = β²·x·(1 − x), so no square root.
+                let h2 = self.beta * self.beta * (x * (1.0 - x));
+                let h2 = if h2 > 0.0 { h2 } else { 0.0 };
+                i0_horner(h2, self.terms) * self.inv_i0_beta
             }
+        };
+        if w > 0.0 {
+            if w < 1.0 {
+                w
+            } else {
+                1.0
+            }
+        } else {
+            0.0
         }
     }
 }

@@ -6,10 +6,13 @@
 //! - `time` mode: `T <op> <out0> <out1> <out2> <out3>`, one per op, in the order of the traced
 //!   marker pairs;
 //! - `sweep` mode: `K <op> <stack bytes, decimal>`, then `S <op> <in0..in3> <out0..out3>` per
-//!   sweep point; finally `DONE`.
+//!   sweep point;
+//! - both: `N <op>` for an op the `quick` smoke skips; finally `DONE`.
 //!
-//! Adding an operation: write an `#[inline(never)] fn(In) -> Out` in `ops`, add an [`Op`] row
-//! to [`OPS`], and describe it (reference, error metric, target) in the host tool's table.
+//! Adding an operation: write an `#[inline(never)] fn(&Ctx, [u32; 4]) -> [u32; 4]` in `ops`
+//! (configuration it needs goes into `Ctx`, built once; array inputs are filled by the op's
+//! `prepare`), add an `Op` row to `OPS`, and give it a row (label, error metric, target) in
+//! `ROWS` of the host tool `host-tests/src/bin/bench-fw.rs`.
 #![cfg_attr(target_os = "none", no_std, no_main)]
 
 #[cfg(not(target_os = "none"))]
@@ -31,6 +34,7 @@ mod fw {
     fn time(ctx: &Ctx, op: &Op) {
         let f = black_box(op.run);
         let input = black_box(op.nominal);
+        (op.prepare)(ctx, input);
         bench_start();
         let out = black_box(f(ctx, black_box(input)));
         bench_stop();
@@ -46,6 +50,7 @@ mod fw {
     fn sweep(ctx: &Ctx, op: &Op) {
         let f = black_box(op.run);
         let input = black_box(op.nominal);
+        (op.prepare)(ctx, input);
         let top = paint_stack();
         let out = black_box(f(ctx, black_box(input)));
         let low = stack_low_water();
@@ -57,6 +62,7 @@ mod fw {
         write_str("\n");
         let mut k = 0;
         while let Some(input) = (op.sweep)(k) {
+            (op.prepare)(ctx, input);
             let out = f(ctx, black_box(input));
             write_str("S ");
             write_str(op.name);
@@ -81,7 +87,13 @@ mod fw {
             exit(false)
         };
         let ctx = black_box(&ctx);
-        for op in OPS.iter().filter(|op| op.quick || !quick) {
+        for op in OPS.iter() {
+            if quick && !op.quick {
+                write_str("N ");
+                write_str(op.name);
+                write_str("\n");
+                continue;
+            }
             if mode_sweep {
                 sweep(ctx, op);
             } else {

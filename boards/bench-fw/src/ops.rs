@@ -3,11 +3,16 @@
 //!
 //! The host tool knows each op by its `name` and holds its f64 reference and target.
 
+use core::cell::RefCell;
 use core::hint::black_box;
+use cortex_m::interrupt::{self, Mutex};
 use feedline::bridge::{BridgeSpec, Detector, ScalarChain};
 use feedline::calibration::OnePortTerms;
 use feedline::detector::Adc;
-use feedline::units::{Db, Ohms, Volts};
+use feedline::dtf::{self, DtfSetup, LossCoefficients, Window};
+use feedline::fixed::{CodeLimits, GammaQ31, LinearChain};
+use feedline::units::{Db, Hertz, Ohms, Volts};
+use feedline::vector::Impedance;
 use num_complex::Complex32;
 
 /// Configuration every op may use, built once before the measurements from inputs the
@@ -16,10 +21,15 @@ pub struct Ctx {
     /// 16-bit ADC, 3.3 V reference; linear detectors, 1 mV floor, 3.2 V ceiling, 40 dB
     /// directivity.
     pub chain: ScalarChain,
-    /// One-port error terms of an invented bridge (directivity 26 dB, source match 20 dB,
-    /// tracking −2 dB at 60°).
+    /// The integer chain for the same linear detectors: floor 20 codes, full scale 65 535.
+    pub fixed: LinearChain,
+    /// Error terms of a one-port calibration (see [`OSL_TERMS`]).
     pub terms: OnePortTerms,
 }
+
+/// (directivity e00, source match e11, tracking e10e01) as (re, im): an invented bridge with
+/// about 26 dB directivity. The host tool's f64 reference uses the same numbers.
+pub const OSL_TERMS: [(f32, f32); 3] = [(0.04, 0.03), (0.1, -0.05), (0.9, 0.1)];
 
 impl Ctx {
     /// The benchmark configuration.
@@ -31,14 +41,13 @@ impl Ctx {
             Volts::new(black_box(3.2)),
             Db::new(black_box(40.0)),
         );
-        let terms = OnePortTerms::new(
-            Complex32::new(black_box(0.04), black_box(-0.03)),
-            Complex32::new(black_box(-0.06), black_box(0.08)),
-            Complex32::new(black_box(0.397), black_box(0.688)),
-        )
-        .ok()?;
+        let fixed = LinearChain::new(CodeLimits::new(black_box(20), black_box(65_535))).ok()?;
+        let c = |(re, im): (f32, f32)| Complex32::new(black_box(re), black_box(im));
+        let [e00, e11, t] = OSL_TERMS;
+        let terms = OnePortTerms::new(c(e00), c(e11), c(t)).ok()?;
         Some(Ctx {
             chain: ScalarChain::new(adc, spec),
+            fixed,
             terms,
         })
     }
@@ -56,7 +65,15 @@ pub struct Op {
     pub sweep: fn(u32) -> Option<[u32; 4]>,
     /// Part of the `--quick` smoke run.
     pub quick: bool,
+    /// Runs before each measured call, outside the counted region and the stack measurement:
+    /// fills the buffers an array operation works on (keep them in a `static`
+    /// `cortex_m::interrupt::Mutex<RefCell<…>>` shared by `prepare` and `run`). [`no_prepare`]
+    /// for scalar ops.
+    pub prepare: fn(&Ctx, [u32; 4]),
 }
+
+/// The `prepare` of an op that needs none.
+pub fn no_prepare<C>(_ctx: &C, _input: [u32; 4]) {}
 
 /// Every operation, in run order. The first, `empty`, measures the call overhead the host
 /// subtracts from the others.
@@ -67,6 +84,7 @@ pub const OPS: &[Op] = &[
         nominal: [0; 4],
         sweep: no_sweep,
         quick: true,
+        prepare: no_prepare::<Ctx>,
     },
     Op {
         name: "naive-libm",
@@ -74,6 +92,7 @@ pub const OPS: &[Op] = &[
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: true,
+        prepare: no_prepare::<Ctx>,
     },
     Op {
         name: "naive-micromath",
@@ -81,6 +100,7 @@ pub const OPS: &[Op] = &[
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: true,
+        prepare: no_prepare::<Ctx>,
     },
     Op {
         name: "chain-f32",
@@ -88,6 +108,7 @@ pub const OPS: &[Op] = &[
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: true,
+        prepare: no_prepare::<Ctx>,
     },
     Op {
         name: "libm-log10f",
@@ -95,6 +116,7 @@ pub const OPS: &[Op] = &[
         nominal: [0x3DCC_CCCD, 0, 0, 0], // 0.1
         sweep: no_sweep,
         quick: false,
+        prepare: no_prepare::<Ctx>,
     },
     Op {
         name: "core-gamma-from-rl",
@@ -102,6 +124,7 @@ pub const OPS: &[Op] = &[
         nominal: [0x41A0_0000, 0, 0, 0], // 20.0 dB
         sweep: no_sweep,
         quick: false,
+        prepare: no_prepare::<Ctx>,
     },
     Op {
         name: "core-directivity-bounds",
@@ -109,6 +132,111 @@ pub const OPS: &[Op] = &[
         nominal: [0x3DCC_CCCD, 0x4220_0000, 0, 0], // |Γ| 0.1, 40 dB
         sweep: no_sweep,
         quick: false,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "chain-fixed",
+        run: chain_fixed,
+        nominal: CHAIN_NOMINAL,
+        sweep: chain_sweep,
+        quick: true,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "fixed-log2",
+        run: fixed_log2::<Ctx>,
+        nominal: [5_000, 0, 0, 0],
+        sweep: log2_sweep,
+        quick: false,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "fixed-exp2",
+        run: fixed_exp2::<Ctx>,
+        nominal: [55_732_705, 0, 0, 0], // 3.3219 in Q8.24: 2^−3.32 ≈ 0.1
+        sweep: exp2_sweep,
+        quick: false,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "fixed-from-gamma",
+        run: fixed_from_gamma::<Ctx>,
+        nominal: [214_748_365, 0, 0, 0], // 0.1 in Q1.31
+        sweep: gamma_q31_sweep,
+        quick: false,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "impedance",
+        run: impedance::<Ctx>,
+        nominal: [0x3E4C_CCCD, 0x3DCC_CCCD, 0, 0], // Γ = 0.2 + 0.1j
+        sweep: complex_sweep,
+        quick: false,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "osl-correct",
+        run: osl_correct,
+        nominal: [0x3E4C_CCCD, 0x3DCC_CCCD, 0, 0],
+        sweep: complex_sweep,
+        quick: true,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "sweep-point",
+        run: sweep_point::<Ctx>,
+        nominal: [0; 4],
+        sweep: no_sweep,
+        quick: false,
+        prepare: sweep_point_prepare::<Ctx>,
+    },
+    Op {
+        name: "dtf-256",
+        run: dtf_run::<Ctx>,
+        nominal: [256, 0, 0, 0],
+        sweep: no_sweep,
+        quick: false,
+        prepare: dtf_prepare::<Ctx>,
+    },
+    Op {
+        name: "dtf-512",
+        run: dtf_run::<Ctx>,
+        nominal: [512, 0, 0, 0],
+        sweep: no_sweep,
+        quick: false,
+        prepare: dtf_prepare::<Ctx>,
+    },
+    Op {
+        name: "dtf-256-plain",
+        run: dtf_run_plain::<Ctx>,
+        nominal: [256, 0, 0, 0],
+        sweep: no_sweep,
+        quick: false,
+        prepare: dtf_prepare::<Ctx>,
+    },
+    Op {
+        name: "libm-cosf",
+        run: libm_cosf::<Ctx>,
+        nominal: [0x3F00_0000, 0, 0, 0], // 0.5
+        sweep: no_sweep,
+        quick: false,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "libm-sqrtf",
+        run: libm_sqrtf::<Ctx>,
+        nominal: [0x4120_0000, 0, 0, 0], // 10.0
+        sweep: no_sweep,
+        quick: false,
+        prepare: no_prepare::<Ctx>,
+    },
+    Op {
+        name: "dtf-fft-1024",
+        run: dtf_fft::<Ctx>,
+        nominal: [1024, 0, 0, 0],
+        sweep: no_sweep,
+        quick: false,
+        prepare: dtf_prepare::<Ctx>,
     },
     Op {
         name: "core-gamma-reflection",
@@ -116,20 +244,7 @@ pub const OPS: &[Op] = &[
         nominal: CHAIN_NOMINAL,
         sweep: chain_sweep,
         quick: false,
-    },
-    Op {
-        name: "osl-correct",
-        run: osl_correct,
-        nominal: [0x3E99_999A, 0x3E4C_CCCD, 0, 0], // raw Γm = 0.3 + 0.2j
-        sweep: no_sweep,
-        quick: false,
-    },
-    Op {
-        name: "impedance",
-        run: impedance,
-        nominal: [0x3E99_999A, 0x3E4C_CCCD, 0, 0], // Γ = 0.3 + 0.2j
-        sweep: no_sweep,
-        quick: false,
+        prepare: no_prepare::<Ctx>,
     },
 ];
 
@@ -239,29 +354,230 @@ pub fn core_directivity_bounds<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
     ]
 }
 
-/// `OnePortTerms::correct` (src/calibration/terms.rs): one raw Γm → corrected Γ with the
-/// context's error terms. In: Γm re, im (f32 bits). Out: Γ re, im, and 0 or `0x100 + error`.
+/// The core's integer chain (src/fixed/chain.rs, `LinearChain::measure`). Out: VSWR (Q16.16),
+/// RL (Q16.16 dB), ML (Q16.16 dB) bits and the quality flags, or the fault (`0x100 + n`).
 #[inline(never)]
-pub fn osl_correct(ctx: &Ctx, x: [u32; 4]) -> [u32; 4] {
-    let m = Complex32::new(f32::from_bits(x[0]), f32::from_bits(x[1]));
-    match ctx.terms.correct(m) {
-        Ok(g) => [g.re.to_bits(), g.im.to_bits(), 0, 0],
-        Err(e) => [REFUSED, REFUSED, 0x100 + e as u32, 0],
+pub fn chain_fixed(ctx: &Ctx, x: [u32; 4]) -> [u32; 4] {
+    match ctx.fixed.measure(x[0] as u16, x[1] as u16) {
+        Ok(m) => [
+            m.reflection.vswr.to_bits(),
+            m.reflection.return_loss.to_bits() as u32,
+            m.reflection.mismatch_loss.to_bits() as u32,
+            u32::from(m.quality.bits()),
+        ],
+        Err(e) => [u32::MAX, u32::MAX, u32::MAX, 0x100 + e as u32],
     }
 }
 
-/// `Impedance::from_gamma` at Z0 = 50 Ω (src/vector/impedance.rs). In: Γ re, im (f32 bits).
-/// Out: R, X (f32 bits), capped flag, or `0x100 + error`.
+/// `fixed::log2::log2_q24`. In: x. Out: log2(x) in Q8.24 (i32 bits).
+#[inline(never)]
+pub fn fixed_log2<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    [feedline::fixed::log2::log2_q24(x[0]) as u32, 0, 0, 0]
+}
+
+/// x = 1 + 67 108 853·k / 64 over 64 points: 1 … 2^26, every mantissa region.
+fn log2_sweep(k: u32) -> Option<[u32; 4]> {
+    (k < 64).then(|| [1 + (67_108_853 / 64) * k + k * k, 0, 0, 0])
+}
+
+/// `fixed::exp2::exp2_neg_q31`. In: a ≥ 0 in Q8.24. Out: 2^−a in Q1.31.
+#[inline(never)]
+pub fn fixed_exp2<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    [feedline::fixed::exp2::exp2_neg_q31(x[0]), 0, 0, 0]
+}
+
+/// a from 0 to 16 in Q8.24, 64 points with odd fractions.
+fn exp2_sweep(k: u32) -> Option<[u32; 4]> {
+    (k < 64).then(|| [k * 4_194_304 + k * 12_345, 0, 0, 0])
+}
+
+/// `fixed::from_gamma`. In: |Γ| in Q1.31. Out: VSWR, RL, ML (Q16.16 bits), capped.
+#[inline(never)]
+pub fn fixed_from_gamma<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    let r = feedline::fixed::from_gamma(GammaQ31::from_bits(x[0]));
+    [
+        r.vswr.to_bits(),
+        r.return_loss.to_bits() as u32,
+        r.mismatch_loss.to_bits() as u32,
+        u32::from(r.capped),
+    ]
+}
+
+/// |Γ| from 0.006 to 0.89 in Q1.31, 64 points.
+fn gamma_q31_sweep(k: u32) -> Option<[u32; 4]> {
+    (k < 64).then(|| [12_884_902 + 29_614_000 * k, 0, 0, 0])
+}
+
+/// `vector::Impedance::from_gamma` with Z0 = 50 Ω. In: Γ (re, im f32 bits). Out: R, X (f32
+/// bits), capped.
 #[inline(never)]
 pub fn impedance<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
     let g = Complex32::new(f32::from_bits(x[0]), f32::from_bits(x[1]));
-    match feedline::vector::Impedance::from_gamma(g, Ohms::new(50.0)) {
+    match Impedance::from_gamma(g, Ohms::new(50.0)) {
         Ok(z) => [
             z.resistance().value().to_bits(),
             z.reactance().value().to_bits(),
             u32::from(z.is_capped()),
             0,
         ],
-        Err(e) => [REFUSED, REFUSED, 0x100 + e as u32, 0],
+        Err(_) => [REFUSED, REFUSED, 0, 1],
     }
+}
+
+/// Γ on an 8 × 8 grid over −0.7 … 0.7 in both parts (|Γ| ≤ 0.99).
+fn complex_sweep(k: u32) -> Option<[u32; 4]> {
+    (k < 64).then(|| {
+        let re = -0.7 + 0.2 * (k % 8) as f32;
+        let im = -0.7 + 0.2 * (k / 8) as f32;
+        [re.to_bits(), im.to_bits(), 0, 0]
+    })
+}
+
+/// `calibration::OnePortTerms::correct` (OSL correction of one point). In: raw Γ (re, im).
+/// Out: corrected Γ (re, im).
+#[inline(never)]
+pub fn osl_correct(ctx: &Ctx, x: [u32; 4]) -> [u32; 4] {
+    let m = Complex32::new(f32::from_bits(x[0]), f32::from_bits(x[1]));
+    match ctx.terms.correct(m) {
+        Ok(g) => [g.re.to_bits(), g.im.to_bits(), 0, 0],
+        Err(_) => [REFUSED, REFUSED, 0, 1],
+    }
+}
+
+type Analysis = (
+    feedline::analysis::MinimumVswr,
+    feedline::analysis::BandTracker<4>,
+);
+
+static ANALYSIS: Mutex<RefCell<Option<Analysis>>> = Mutex::new(RefCell::new(None));
+
+/// Fresh minimum-VSWR and 2:1-band trackers that have seen two points.
+pub fn sweep_point_prepare<C>(_ctx: &C, _x: [u32; 4]) {
+    use feedline::reflection::{Gamma, Vswr};
+    let mut min = feedline::analysis::MinimumVswr::new();
+    let Ok(limit) = Vswr::new(2.0) else { return };
+    let mut bands = feedline::analysis::BandTracker::<4>::new(limit);
+    for (f, g) in [(100.0e6, 0.4), (101.0e6, 0.3)] {
+        let g = Gamma::saturating(g);
+        min.push(Hertz::new(f), g);
+        bands.push(Hertz::new(f), g.vswr());
+    }
+    interrupt::free(|cs| *ANALYSIS.borrow(cs).borrow_mut() = Some((min, bands)));
+}
+
+/// Sweep analysis of one point: |Γ| → VSWR, then the minimum-VSWR and band trackers.
+#[inline(never)]
+pub fn sweep_point<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    let g = feedline::reflection::Gamma::saturating(black_box(0.2) + f32::from_bits(x[0]));
+    interrupt::free(|cs| {
+        if let Some((min, bands)) = ANALYSIS.borrow(cs).borrow_mut().as_mut() {
+            min.push(Hertz::new(102.0e6), g);
+            bands.push(Hertz::new(102.0e6), g.vswr());
+            return [min.skipped() as u32, bands.bands().len() as u32, 0, 0];
+        }
+        [0; 4]
+    })
+}
+
+/// Transform length M of the distance-to-fault ops: 1024 bins (8 KiB of `Complex32`).
+pub const DTF_BINS: usize = 1024;
+
+static DTF_BUF: Mutex<RefCell<[Complex32; DTF_BINS]>> =
+    Mutex::new(RefCell::new([Complex32::new(0.0, 0.0); DTF_BINS]));
+
+/// 1 … 301 MHz, Hann window, velocity factor 0.66, loss of a thin coax (invented figures).
+fn dtf_setup() -> Option<DtfSetup<LossCoefficients>> {
+    Some(DtfSetup {
+        start: Hertz::new(1.0e6),
+        stop: Hertz::new(301.0e6),
+        window: Window::Hann,
+        velocity_factor: 0.66,
+        loss: LossCoefficients::new(0.04, 0.0005)?,
+    })
+}
+
+/// Fills the buffer with the sweep of one reflection (|ρ| = 0.3, 12 m out) behind a small
+/// mismatch: Γ_k = 0.05 + 0.3·w^k, w = e^(−j·2π·Δf·2d/v), by phasor rotation.
+pub fn dtf_prepare<C>(_ctx: &C, x: [u32; 4]) {
+    let points = x[0] as usize;
+    let df = 300.0e6 / (points as f32 - 1.0);
+    let phase = -2.0 * core::f32::consts::PI * df * 2.0 * 12.0 / (0.66 * dtf::SPEED_OF_LIGHT);
+    let w = Complex32::new(libm::cosf(phase), libm::sinf(phase));
+    let mut z = Complex32::new(0.3, 0.0);
+    interrupt::free(|cs| {
+        for (k, b) in DTF_BUF.borrow(cs).borrow_mut().iter_mut().enumerate() {
+            *b = if k < points {
+                Complex32::new(0.05, 0.0) + z
+            } else {
+                Complex32::new(0.0, 0.0)
+            };
+            z *= w;
+        }
+    });
+}
+
+/// `dtf::transform_in_place`: points → 1024 bins. In: points. Out: bins, bin spacing (f32
+/// bits), |response| at 12 m (f32 bits).
+#[inline(never)]
+pub fn dtf_run<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    let Some(setup) = dtf_setup() else {
+        return [0; 4];
+    };
+    interrupt::free(|cs| {
+        let mut buf = DTF_BUF.borrow(cs).borrow_mut();
+        match dtf::transform_in_place(&mut buf[..], x[0] as usize, &setup) {
+            Ok(r) => {
+                let n = (12.0 / r.bin_spacing().value()) as usize;
+                [
+                    r.bins() as u32,
+                    r.bin_spacing().value().to_bits(),
+                    r.magnitude(n).unwrap_or(f32::NAN).to_bits(),
+                    0,
+                ]
+            }
+            Err(_) => [0, 0, 0, 1],
+        }
+    })
+}
+
+/// The FFT alone (`dtf::forward_in_place`, microfft radix-2) on the 1024-point buffer.
+#[inline(never)]
+pub fn dtf_fft<C>(_ctx: &C, _x: [u32; 4]) -> [u32; 4] {
+    interrupt::free(|cs| {
+        let mut buf = DTF_BUF.borrow(cs).borrow_mut();
+        let ok = dtf::forward_in_place(&mut buf[..]);
+        [u32::from(ok), buf[3].re.to_bits(), 0, 0]
+    })
+}
+
+/// As [`dtf_run`] with a rectangular window and no loss model: the transform's own cost
+/// without the per-point window and loss evaluations.
+#[inline(never)]
+pub fn dtf_run_plain<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    let setup = DtfSetup {
+        start: Hertz::new(1.0e6),
+        stop: Hertz::new(301.0e6),
+        window: Window::Rectangular,
+        velocity_factor: 0.66,
+        loss: dtf::NoLoss,
+    };
+    interrupt::free(|cs| {
+        let mut buf = DTF_BUF.borrow(cs).borrow_mut();
+        match dtf::transform_in_place(&mut buf[..], x[0] as usize, &setup) {
+            Ok(r) => [r.bins() as u32, r.bin_spacing().value().to_bits(), 0, 0],
+            Err(_) => [0, 0, 0, 1],
+        }
+    })
+}
+
+/// One libm `cosf` (the Hann window's cost per point).
+#[inline(never)]
+pub fn libm_cosf<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    [libm::cosf(f32::from_bits(x[0])).to_bits(), 0, 0, 0]
+}
+
+/// One libm `sqrtf` (the loss model's cost per point).
+#[inline(never)]
+pub fn libm_sqrtf<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
+    [libm::sqrtf(f32::from_bits(x[0])).to_bits(), 0, 0, 0]
 }

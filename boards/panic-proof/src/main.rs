@@ -36,6 +36,244 @@ mod proof {
     };
     use num_complex::Complex32;
 
+    fn c(re: f32, im: f32) -> Complex32 {
+        Complex32::new(input(re), input(im))
+    }
+
+    fn prove_fixed() {
+        use feedline::fixed::{self, *};
+        keep(fixed::log2::log2_q24(input(5000)));
+        keep(fixed::log2::log2_u16_q24(input(5000)));
+        keep(fixed::log2::log2_u64_q24(input(5000), input(123)));
+        keep(fixed::exp2::exp2_neg_q31(input(55_000_000)));
+        keep(fixed::exp2::exp2_q16(input(55_000_000)));
+        keep(fixed::wide::mul_wide(input(123_456), input(654_321)));
+        keep(fixed::wide::mul_hi(input(123_456), input(654_321)));
+        keep(fixed::wide::mul_shr(
+            input(123_456),
+            input(654_321),
+            input(7),
+        ));
+        let g = GammaQ31::from_bits(input(214_748_365));
+        keep(from_gamma(g));
+        keep(g.saturating_add(GammaQ31::from_bits(input(5))));
+        keep(g.saturating_sub(GammaQ31::from_bits(input(5))));
+        keep(g.to_f32());
+        keep(g.to_bits());
+        keep(VswrQ16::from_bits(input(70_000)).to_f32());
+        let d = DbQ16::from_bits(input(20 << 16));
+        keep(d + DbQ16::from_int(input(3)));
+        keep(d - DbQ16::from_centi(input(250)));
+        keep(d.half());
+        keep(d.to_f32());
+        let p = DbmQ16::from_bits(input(10 << 16));
+        keep(p - DbmQ16::from_bits(input(-5 << 16)));
+        keep(p + d);
+        keep(p - d);
+        for square in [false, true] {
+            let limits = CodeLimits::new(input(20), input(65_535));
+            if square {
+                if let Ok(ch) = SquareLawChain::new(limits) {
+                    keep(ch.measure(input(50_000), input(5_000)));
+                }
+            } else if let Ok(ch) = LinearChain::new(limits) {
+                keep(ch.measure(input(50_000), input(5_000)));
+            }
+        }
+        let dl = DbmLimits::new(
+            DbmQ16::from_bits(input(-40 << 16)),
+            DbmQ16::from_bits(input(20 << 16)),
+        );
+        if let Ok(ch) = DbmChain::new(dl) {
+            keep(ch.measure(
+                DbmQ16::from_bits(input(10 << 16)),
+                DbmQ16::from_bits(input(-10 << 16)),
+            ));
+        }
+        let cfg = LogDetectorConfig {
+            adc_nv_per_code: input(50_354),
+            slope_uv_per_db: input(-25_000),
+            intercept: DbmQ16::from_bits(input(20 << 16)),
+            limits: dl,
+        };
+        if let Ok(ch) = LogDetectorChain::new(input(cfg)) {
+            keep(ch.power(input(20_000)));
+            keep(ch.measure(input(20_000), input(30_000)));
+        }
+        let b = DirectivityBounds::new(DbQ16::from_int(input(35)));
+        keep(b.leak());
+        let rb = b.bounds(g);
+        keep(rb.reaches_perfect_match());
+        if let Ok(ch) = LinearChain::new(CodeLimits::new(input(20), input(65_535))) {
+            if let Ok(mut m) = ch.measure(input(50_000), input(40_000)) {
+                keep(b.qualify(&mut m));
+                keep(b.cable_loss(&m));
+                keep(m.quality.is_good());
+                keep(m.quality.contains(input(FixedQuality::CAPPED)));
+                keep(m.quality.bits());
+                keep(m.quality.with(FixedQuality::CAPPED));
+            }
+        }
+        keep(matched_cable_loss(d));
+        let mut avg = input(CodeAverager::new());
+        keep(avg.push(input(1000)));
+        keep(avg.count());
+        keep(avg.sum());
+        keep(avg.mean());
+        keep(avg.mean_shift(input(3)));
+        avg.reset();
+        keep(avg);
+        let codes = input([1000u16, 1001, 1003, 999, 65_535]);
+        let n = input(5usize).min(codes.len());
+        keep(mean_of(codes.get(..n).unwrap_or(&codes)));
+    }
+
+    fn prove_dtf() {
+        use feedline::dtf::*;
+        let mut buf = [Complex32::new(0.0, 0.0); 64];
+        for (k, b) in buf.iter_mut().enumerate().take(32) {
+            *b = c(0.1, k as f32 * 0.01);
+        }
+        let mut buf = input(buf);
+        let n = input(32usize);
+        let Some(loss) = LossCoefficients::new(input(0.04), input(0.0005)) else {
+            return;
+        };
+        keep(loss.coefficients());
+        let setup = input(DtfSetup {
+            start: Hertz::new(1.0e6),
+            stop: Hertz::new(301.0e6),
+            window: Window::Kaiser { beta: 6.0 },
+            velocity_factor: 0.66,
+            loss,
+        });
+        keep(setup.window.is_valid());
+        keep(setup.window.coefficient(input(3), input(32)));
+        let prepared = setup.window.prepare();
+        keep(prepared.coefficient(input(3), input(32)));
+        keep(cos_turns(input(0.3)));
+        keep(sqrt_fast(input(7.0)));
+        keep(bessel_i0(input(3.0)));
+        if let Ok(r) = transform_in_place(&mut buf, n, &setup) {
+            keep(r.kind());
+            keep(r.bins());
+            keep(r.bin_spacing());
+            keep(r.resolution());
+            keep(r.max_range());
+            keep(r.distance(input(7)));
+            keep(r.compensation(Meters::new(input(12.0))));
+            keep(r.raw_magnitude(input(7)));
+            keep(r.magnitude(input(7)));
+            keep(r.return_loss(input(7)));
+            for x in r.iter() {
+                keep(x);
+            }
+            keep(r.faults::<8>(&input(FaultSearch {
+                threshold: Db::new(30.0),
+                min_separation: Meters::new(0.5),
+                max_distance: Meters::new(40.0),
+            })));
+        }
+        let setup_no_loss = input(DtfSetup {
+            start: Hertz::new(1.0e6),
+            stop: Hertz::new(301.0e6),
+            window: Window::Hann,
+            velocity_factor: 0.66,
+            loss: NoLoss,
+        });
+        let mut buf2 = input([Complex32::new(0.5, 0.0); 64]);
+        keep(scalar_transform_in_place(&mut buf2, n, &setup_no_loss).map(|r| r.bins()));
+        let closure = |f: Hertz| f.value() * 1.0e-9;
+        let setup_closure = input(DtfSetup {
+            start: Hertz::new(1.0e6),
+            stop: Hertz::new(301.0e6),
+            window: Window::Rectangular,
+            velocity_factor: 0.66,
+            loss: closure,
+        });
+        let mut buf3 = input([Complex32::new(0.5, 0.1); 64]);
+        keep(transform_in_place(&mut buf3, n, &setup_closure).map(|r| r.bins()));
+        let mut buf4 = input([Complex32::new(0.5, 0.1); 64]);
+        keep(forward_in_place(&mut buf4));
+        keep(buf4);
+    }
+
+    fn prove_analysis() {
+        use feedline::analysis::*;
+        let f = |x: f32| Hertz::new(input(x));
+        let mut min = input(MinimumVswr::new());
+        min.push(f(1.0e8), Gamma::saturating(input(0.3)));
+        if let Ok(s) = Vswr::new(input(1.6)) {
+            min.push_vswr(f(1.1e8), s);
+            let mut bt = input(BandTracker::<4>::new(s));
+            bt.push(f(1.0e8), s);
+            bt.finish();
+            keep(bt.threshold());
+            keep(bt.bands().len());
+            keep(bt.widest().map(|b| (b.width(), b.centre(), b.is_closed())));
+            keep(bt.missed());
+            keep(bt.skipped());
+            let mut bands = input(Bands::<2, 4>::new());
+            keep(bands.add_threshold(s));
+            bands.push(f(1.0e8), s);
+            bands.finish();
+            keep(bands.thresholds().len());
+            keep(q_from_bandwidth(f(1.0e8), f(1.0e6), s));
+            let mut watch = input(LimitWatch::new(VswrLimit {
+                low: f(1.0e8),
+                high: f(1.2e8),
+                limit: s,
+            }));
+            watch.push(f(1.1e8), s);
+            let v = watch.verdict();
+            keep(v.raised());
+            keep(v);
+        }
+        keep(min.skipped());
+        keep(min.result());
+        keep(parabolic_vertex(
+            (input(1.0), input(3.0)),
+            (input(2.0), input(1.0)),
+            (input(3.0), input(2.5)),
+        ));
+        keep(impedance(c(0.2, 0.1), Ohms::new(input(50.0))));
+        let mut res = input(Resonances::<4>::new());
+        res.push(f(1.0e8), c(40.0, -5.0));
+        res.push_gamma(f(1.1e8), c(0.1, 0.05), Ohms::new(input(50.0)));
+        keep(res.found().len());
+        keep(res.missed());
+        keep(res.skipped());
+    }
+
+    fn prove_sweep_plan() {
+        use feedline::sweep::{Spacing, SweepPlan};
+        for spacing in [Spacing::Linear, Spacing::Logarithmic] {
+            keep(SweepPlan::<64>::from_centre_span(
+                Hertz::new(input(1.0e8)),
+                Hertz::new(input(2.0e7)),
+                input(51),
+                spacing,
+            ));
+            if let Ok(plan) = SweepPlan::<64>::from_start_stop(
+                Hertz::new(input(1.0e6)),
+                Hertz::new(input(3.0e7)),
+                input(64),
+                input(spacing),
+            ) {
+                keep(plan.start());
+                keep(plan.stop());
+                keep(plan.span());
+                keep(plan.points());
+                keep(plan.spacing());
+                keep(plan.linear_step());
+                keep(plan.frequency(input(10)));
+                for x in plan.iter() {
+                    keep(x);
+                }
+            }
+        }
+    }
+
     /// Keeps a result alive: the optimizer must assume it is read.
     fn keep<T>(x: T) {
         core::hint::black_box(x);
@@ -641,9 +879,13 @@ mod proof {
         prove_cable();
         prove_detector();
         prove_bridge();
+        prove_fixed();
         prove_vector();
         prove_calibration();
         prove_store();
+        prove_dtf();
+        prove_analysis();
+        prove_sweep_plan();
         prove_monitor();
         prove_line();
         crate::proto::prove_report();
