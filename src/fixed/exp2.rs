@@ -12,7 +12,7 @@
 //! Exact at integer y. Monotonic non-decreasing in y.
 //!
 //! Cost: no division, no 64-bit arithmetic; one 32 × 32 → 32 multiply with factors
-//! < 2^19 and < 2^12. Table: 65 × 4 = 260 bytes of flash.
+//! < 2^19 and < 2^12. Table: 64 (start, rise) pairs, 512 bytes of flash.
 //!
 //! Panic policy: nothing here panics; out-of-range results saturate.
 
@@ -35,7 +35,11 @@ const EXP2_TABLE: [u32; 65] = [
 ];
 
 /// Table size in bytes (for the README's memory figures).
-pub const EXP2_TABLE_BYTES: usize = core::mem::size_of::<[u32; 65]>();
+pub const EXP2_TABLE_BYTES: usize = core::mem::size_of::<[(u32, u32); 64]>();
+
+/// (start, rise) of each segment of [`EXP2_TABLE`]: one load pair and no subtraction per
+/// interpolation.
+const EXP2_SEGMENTS: [(u32, u32); 64] = super::log2::segments(&EXP2_TABLE);
 
 /// 2^f in Q1.24 for a fraction f in Q0.24 (`f < 2^24`; higher bits are ignored). The result
 /// is in `2^24..2^25`.
@@ -43,10 +47,9 @@ pub const EXP2_TABLE_BYTES: usize = core::mem::size_of::<[u32; 65]>();
 fn mantissa_q24(f: u32) -> u32 {
     let idx = ((f >> 18) & 0x3F) as usize; // 0..=63
     let frac = (f >> 6) & 0xFFF;
-    let lo = EXP2_TABLE.get(idx).copied().unwrap_or(1 << 24);
-    let hi = EXP2_TABLE.get(idx + 1).copied().unwrap_or(lo);
-    // hi − lo ≤ 361_448 < 2^19 and frac < 2^12: the product is < 2^31; the sum < 2^25.
-    lo.wrapping_add(hi.wrapping_sub(lo).wrapping_mul(frac) >> 12)
+    let (lo, rise) = EXP2_SEGMENTS.get(idx).copied().unwrap_or((1 << 24, 0));
+    // rise ≤ 361_448 < 2^19 and frac < 2^12: the product is < 2^31; the sum < 2^25.
+    lo.wrapping_add(rise.wrapping_mul(frac) >> 12)
 }
 
 /// 2^(−a) in Q1.31 (`0..=2^31`, where 2^31 is 1.0) for a ≥ 0 in Q8.24.
