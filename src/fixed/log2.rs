@@ -114,6 +114,13 @@ pub fn log2_u16_q24(x: u16) -> i32 {
     if x == 0 {
         return LOG2_OF_ZERO;
     }
+    log2_nonzero_u16_q24(x)
+}
+
+/// [`log2_u16_q24`] for a caller that knows `x ≠ 0` (no zero test; 0 would give 0, not
+/// [`LOG2_OF_ZERO`]).
+#[inline]
+pub(crate) fn log2_nonzero_u16_q24(x: u16) -> i32 {
     let x = u32::from(x);
     let e = if x >= 1 << 8 {
         8 + floor_log2_byte_of(x >> 8)
@@ -122,6 +129,15 @@ pub fn log2_u16_q24(x: u16) -> i32 {
     };
     // e ≤ 15 and the mantissa log ≤ 2^24: the sum is < 2^28.
     ((e << 24).wrapping_add(log2_mantissa(x.wrapping_shl(31u32.wrapping_sub(e))))) as i32
+}
+
+/// [`log2_q24`] for a caller that knows `x ≠ 0` (no zero test; 0 would give 0, not
+/// [`LOG2_OF_ZERO`]).
+#[inline]
+pub(crate) fn log2_nonzero_q24(x: u32) -> i32 {
+    let (m, e) = normalize(x);
+    // e ≤ 31 and the mantissa log ≤ 2^24: the sum is < 2^29.
+    (e << 24).wrapping_add(log2_mantissa(m) as i32)
 }
 
 /// log2(m / 2^31) in Q8.24 (in `0..2^24`) for m with bit 31 set.
@@ -146,9 +162,7 @@ pub fn log2_q24(x: u32) -> i32 {
     if x == 0 {
         return LOG2_OF_ZERO;
     }
-    let (m, e) = normalize(x);
-    // e ≤ 31 and the mantissa log ≤ 2^24: the sum is < 2^29.
-    (e << 24).wrapping_add(log2_mantissa(m) as i32)
+    log2_nonzero_q24(x)
 }
 
 /// log2(hi · 2^32 + lo) in Q8.24 (in `0..64 · 2^24`), same error bound as [`log2_q24`]
