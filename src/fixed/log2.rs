@@ -155,7 +155,7 @@ fn log2_mantissa(m: u32) -> u32 {
 
 /// log2(x) in Q8.24: for x ≥ 1 the result is in `0..32 · 2^24`. See the module doc for the
 /// error bound; `log2_q24(0)` returns [`LOG2_OF_ZERO`].
-// Inlined: on Armv6-M this saves about 12 of ~350 instructions per reading at the cost of
+// Inlined: on Armv6-M this saves about 12 of ~260 instructions per reading at the cost of
 // about 350 bytes of flash per chain (measured with host-tests/scripts/m0_instruction_count.py).
 #[inline]
 pub fn log2_q24(x: u32) -> i32 {
