@@ -28,14 +28,14 @@
 //! the return loss is a lower bound. [`FixedQuality::CAPPED`] marks a value at its ceiling.
 //!
 //! Cost: per reading, no division, no 64-bit and no floating-point operation: four table
-//! logarithms, two table exponentials and a few 16 × 16 multiplies (about 340 Armv6-M
+//! logarithms, two table exponentials and a few 16 × 16 multiplies (about 260 Armv6-M
 //! instructions for the code chains; see the module doc of `fixed`).
 //!
 //! Panic policy: nothing here panics; constructors refuse bad configurations with
 //! [`FixedConfigError`].
 
-use super::exp2::{exp2_neg_q31, exp2_q16};
-use super::log2::{log2_q24, log2_u16_q24, ONE_Q24};
+use super::exp2::{exp2_neg_q31, exp2_neg_q31_below_32, exp2_q16};
+use super::log2::{log2_nonzero_q24, log2_nonzero_u16_q24, log2_q24, ONE_Q24};
 use super::q::{DbQ16, DbmQ16, GammaQ31, DB_CEILING_Q16, GAMMA_ONE_Q31};
 use super::relations::{
     db10_from_log2, neg_log2_one_minus_gamma_squared, vswr_from_log2, FixedReflection, K_DB_Q16,
@@ -328,6 +328,14 @@ fn total() -> FixedReflection {
     }
 }
 
+/// A total reflection with these flags. Kept out of line so that its constants are not
+/// set up on the path of a partial reflection (on Armv6-M, about ten instructions).
+#[inline(never)]
+#[cold]
+fn total_measurement(q: FixedQuality) -> FixedMeasurement {
+    FixedMeasurement::new(total(), q)
+}
+
 const THIRTY_ONE_Q24: i32 = 31 * ONE_Q24;
 
 /// Linear-detector chain: codes proportional to amplitude (|Γ| = r/f).
@@ -349,7 +357,7 @@ impl LinearChain {
     /// The verdict and reflection quantities for one forward and one reflected code.
     pub fn measure(&self, forward: u16, reflected: u16) -> Result<FixedMeasurement, FixedFault> {
         Ok(match self.limits.verdict(forward, reflected)? {
-            Verdict::Total(q) => FixedMeasurement::new(total(), q),
+            Verdict::Total(q) => total_measurement(q),
             Verdict::Partial(f, r, q) => FixedMeasurement::new(linear_core(f, r), q),
         })
     }
@@ -361,17 +369,19 @@ fn linear_core(f: u32, r: u32) -> FixedReflection {
     // Each output is finished before the next logarithm, which keeps few values live (on
     // Armv6-M, fewer register spills). Every logarithm is of an exact integer < 2^32.
     // f and r came from u16 codes: the casts are exact.
-    let lf = log2_u16_q24(f as u16);
-    let lr = log2_u16_q24(r as u16);
+    // 0 < r < f: no logarithm here is of zero.
+    let lf = log2_nonzero_u16_q24(f as u16);
+    let lr = log2_nonzero_u16_q24(r as u16);
     // −log2|Γ| = log2 f − log2 r ∈ [0, 16] (log2_q24 is monotonic): RL ≤ 96.4 dB, below the
     // 100 dB cap, so no cap test is needed.
     let d = lf.wrapping_sub(lr).max(0) as u32;
     let return_loss = DbQ16::from_bits(mul_u16_shr(d, K_DB_Q16, 21) as i32);
-    let gamma = GammaQ31::from_bits(exp2_neg_q31(d));
+    // d < 17 · 2^24; the exponential is ≤ 2^31.
+    let gamma = GammaQ31::from_bits_within_one(exp2_neg_q31_below_32(d));
     // f² − r² = (f − r)(f + r) = (1 − |Γ|²) · f² is exact in u32 (f² < 2^32) and falls as r
     // rises, so mismatch loss and VSWR come out monotonic in r.
-    let lp = log2_q24(f + r);
-    let ld = log2_q24((f - r) * (f + r));
+    let lp = log2_nonzero_q24(f + r);
+    let ld = log2_nonzero_q24((f - r) * (f + r));
     // log2 VSWR = log2((f + r)² / (f² − r²)).
     let (vswr, capped) = vswr_from_log2(lp.wrapping_add(lp).wrapping_sub(ld));
     // −log2(1 − |Γ|²) = log2 f² − log2(f² − r²) ≤ log2(f²/(2f − 1)) < 16: ML < 48 dB, below
@@ -406,7 +416,7 @@ impl SquareLawChain {
     /// The verdict and reflection quantities for one forward and one reflected code.
     pub fn measure(&self, forward: u16, reflected: u16) -> Result<FixedMeasurement, FixedFault> {
         Ok(match self.limits.verdict(forward, reflected)? {
-            Verdict::Total(q) => FixedMeasurement::new(total(), q),
+            Verdict::Total(q) => total_measurement(q),
             Verdict::Partial(f, r, q) => FixedMeasurement::new(square_core(f, r), q),
         })
     }
@@ -415,19 +425,21 @@ impl SquareLawChain {
 /// 0 < r < f < 2^16.
 #[inline]
 fn square_core(f: u32, r: u32) -> FixedReflection {
-    // f and r came from u16 codes: the casts are exact.
-    let lf = log2_u16_q24(f as u16);
-    let lr = log2_u16_q24(r as u16);
+    // f and r came from u16 codes: the casts are exact. 0 < r < f: no logarithm here is of
+    // zero.
+    let lf = log2_nonzero_u16_q24(f as u16);
+    let lr = log2_nonzero_u16_q24(r as u16);
     // −log2|Γ|² ∈ [0, 16]: RL ≤ 48.2 dB, below the cap.
     let d = lf.wrapping_sub(lr).max(0) as u32;
     let return_loss = DbQ16::from_bits(mul_u16_shr(d, K_DB_Q16, 22) as i32);
-    // |Γ| = 2^(−d/2) < 1 because d > 0, so 2^31 + g < 2^32.
-    let gamma = GammaQ31::from_bits(exp2_neg_q31(d >> 1));
+    // |Γ| = 2^(−d/2) ≤ 1 (d/2 < 9 · 2^24), so 2^31 + g < 2^32.
+    let gamma = GammaQ31::from_bits_within_one(exp2_neg_q31_below_32(d >> 1));
     // −log2(1 − |Γ|²) = log2 f − log2(f − r) ∈ [0, 16]: ML ≤ 48.2 dB, below the cap.
-    let lm = log2_u16_q24((f - r) as u16);
+    let lm = log2_nonzero_u16_q24((f - r) as u16);
     let ml = lf.wrapping_sub(lm).max(0) as u32;
     let mismatch_loss = DbQ16::from_bits(mul_u16_shr(ml, K_DB_Q16, 22) as i32);
-    let l1p = log2_q24(GAMMA_ONE_Q31.wrapping_add(gamma.to_bits())).wrapping_sub(THIRTY_ONE_Q24);
+    let l1p =
+        log2_nonzero_q24(GAMMA_ONE_Q31.wrapping_add(gamma.to_bits())).wrapping_sub(THIRTY_ONE_Q24);
     // log2 VSWR = 2·log2(1 + |Γ|) − log2(1 − |Γ|²).
     let (vswr, capped) = vswr_from_log2(l1p.wrapping_add(l1p).wrapping_add(ml as i32));
     FixedReflection {

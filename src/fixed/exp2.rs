@@ -12,7 +12,7 @@
 //! Exact at integer y. Monotonic non-decreasing in y.
 //!
 //! Cost: no division, no 64-bit arithmetic; one 32 × 32 → 32 multiply with factors
-//! < 2^19 and < 2^12. Table: 65 × 4 = 260 bytes of flash.
+//! < 2^19 and < 2^12. Table: 65 (start, rise) pairs, 520 bytes of flash.
 //!
 //! Panic policy: nothing here panics; out-of-range results saturate.
 
@@ -35,38 +35,58 @@ const EXP2_TABLE: [u32; 65] = [
 ];
 
 /// Table size in bytes (for the README's memory figures).
-pub const EXP2_TABLE_BYTES: usize = core::mem::size_of::<[u32; 65]>();
+pub const EXP2_TABLE_BYTES: usize = core::mem::size_of::<[(u32, u32); 65]>();
 
-/// 2^f in Q1.24 for a fraction f in Q0.24 (`f < 2^24`; higher bits are ignored). The result
-/// is in `2^24..2^25`.
+/// (start, rise) of each segment of [`EXP2_TABLE`]: one load pair and no subtraction per
+/// interpolation; a 65th entry (2^25, 0) makes 2^1 = 2 come out of the same code path.
+const EXP2_SEGMENTS: [(u32, u32); 65] = with_end(super::log2::segments(&EXP2_TABLE));
+
+const fn with_end(s: [(u32, u32); 64]) -> [(u32, u32); 65] {
+    let mut t = [(1u32 << 25, 0u32); 65];
+    let mut i = 0;
+    while i < 64 {
+        t[i] = s[i];
+        i += 1;
+    }
+    t
+}
+
+/// 2^f in Q1.24 for a fraction f in Q0.24, `f ≤ 2^24` (higher bits are ignored). The result
+/// is in `2^24..=2^25`, 2^25 exactly for f = 2^24.
 #[inline]
 fn mantissa_q24(f: u32) -> u32 {
-    let idx = ((f >> 18) & 0x3F) as usize; // 0..=63
+    let idx = ((f >> 18) & 0x7F) as usize; // 0..=64 for f ≤ 2^24
     let frac = (f >> 6) & 0xFFF;
-    let lo = EXP2_TABLE.get(idx).copied().unwrap_or(1 << 24);
-    let hi = EXP2_TABLE.get(idx + 1).copied().unwrap_or(lo);
-    // hi − lo ≤ 361_448 < 2^19 and frac < 2^12: the product is < 2^31; the sum < 2^25.
-    lo.wrapping_add(hi.wrapping_sub(lo).wrapping_mul(frac) >> 12)
+    let (lo, rise) = EXP2_SEGMENTS.get(idx).copied().unwrap_or((1 << 25, 0));
+    // rise ≤ 361_448 < 2^19 and frac < 2^12: the product is < 2^31; the sum ≤ 2^25 (the
+    // segment's end).
+    lo.wrapping_add(rise.wrapping_mul(frac) >> 12)
+}
+
+/// 2^(1 − f)/2 in Q1.31 (`2^30..=2^31`) for the fraction f = `a mod 2^24` of a Q8.24 `a`.
+#[inline]
+fn neg_mantissa_q31(a: u32) -> u32 {
+    // 0 < 2^24 − f ≤ 2^24; m = 2^(1−f) in Q1.24 is ≤ 2^25, so m · 2^6 ≤ 2^31.
+    mantissa_q24((1 << 24) - (a & 0x00FF_FFFF)) << 6
 }
 
 /// 2^(−a) in Q1.31 (`0..=2^31`, where 2^31 is 1.0) for a ≥ 0 in Q8.24.
 #[inline]
 pub fn exp2_neg_q31(a: u32) -> u32 {
     let n = a >> 24;
-    let f = a & 0x00FF_FFFF;
-    if f == 0 {
-        // 2^(−n) exactly.
-        return if n > 31 { 0 } else { (1u32 << 31) >> n };
-    }
-    // 2^(−n − f) = 2^(1 − f) / 2 · 2^(−n), with 0 < 1 − f < 1.
-    let m = mantissa_q24((1 << 24) - f); // 2^(1−f) in Q1.24, < 2^25
-                                         // m · 2^6 is 2^(1−f)/2 in Q1.31 and < 2^31.
-    let g = m << 6;
     if n > 31 {
         0
     } else {
-        g >> n
+        // 2^(−n − f) = 2^(1 − f)/2 · 2^(−n).
+        neg_mantissa_q31(a) >> n
     }
+}
+
+/// [`exp2_neg_q31`] for a caller that knows `a < 32 · 2^24` (no range test; a larger `a`
+/// gives a wrong value, never a panic). The result is `≤ 2^31`.
+#[inline]
+pub(crate) fn exp2_neg_q31_below_32(a: u32) -> u32 {
+    neg_mantissa_q31(a) >> ((a >> 24) & 31)
 }
 
 /// 2^y in Q16.16 for y ≥ 0 in Q8.24; `u32::MAX` when 2^y ≥ 65536.

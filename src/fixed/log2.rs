@@ -1,8 +1,9 @@
 //! Integer base-2 logarithm of a `u32`, result in Q8.24 (`i32`, 24 fraction bits).
 //!
-//! Method: normalise x = 2^e · (1 + t) with 0 ≤ t < 1 by a three-step binary search and a
-//! 16-entry table (Armv6-M has no count-leading-zeros instruction), then log2(1 + t) by linear interpolation in a
-//! 65-entry table of log2(1 + i/64). This is the table-and-interpolate method of any numerical
+//! Method: normalise x = 2^e · (1 + t) with 0 ≤ t < 1 by at most two comparisons and a
+//! 256-entry table of ⌊log2⌋ of a byte (Armv6-M has no count-leading-zeros instruction), then
+//! log2(1 + t) by linear interpolation in a 65-entry table of log2(1 + i/64), kept as 64
+//! (start, rise) segment pairs. This is the table-and-interpolate method of any numerical
 //! analysis text (e.g. Hildebrand, *Introduction to Numerical Analysis*, ch. 2: the error of
 //! linear interpolation is h²/8 · max|f''|). With h = 1/64 and f(t) = log2(1 + t),
 //! |f''| ≤ 1/ln 2, so the interpolation error is at most 4.41e-5; the product truncation adds
@@ -13,7 +14,7 @@
 //! non-decreasing in x: the interpolant of an increasing table is increasing.
 //!
 //! Cost: no division, no 64-bit arithmetic; one 32 × 32 → 32 multiply whose factors are
-//! < 2^19 and < 2^12. Tables: 65 × 4 = 260 bytes plus 16 bytes of flash.
+//! < 2^19 and < 2^12. Tables: 64 × 8 = 512 bytes of segments plus 256 bytes of flash.
 //!
 //! Panic policy: nothing here panics. `log2_q24(0)` is [`LOG2_OF_ZERO`].
 
@@ -42,56 +43,101 @@ const LOG2_TABLE: [u32; 65] = [
 ];
 
 /// Table size in bytes (for the README's memory figures).
-pub const LOG2_TABLE_BYTES: usize = core::mem::size_of::<[u32; 65]>();
+pub const LOG2_TABLE_BYTES: usize = core::mem::size_of::<[(u32, u32); 64]>();
 
-/// ⌊log2 n⌋ for n = 1..=15 (entry 0 unused): the last step of the normalisation.
-const FLOOR_LOG2_NIBBLE: [u8; 16] = [0, 0, 1, 1, 2, 2, 2, 2, 3, 3, 3, 3, 3, 3, 3, 3];
+/// (lo, hi − lo) for each segment of [`LOG2_TABLE`]: the value at the segment's start and its
+/// rise, so an interpolation is one load pair and no subtraction.
+const LOG2_SEGMENTS: [(u32, u32); 64] = segments(&LOG2_TABLE);
+
+/// (table[i], table[i + 1] − table[i]) for i = 0..64 of a 65-entry increasing table.
+pub(crate) const fn segments(t: &[u32; 65]) -> [(u32, u32); 64] {
+    let mut s = [(0u32, 0u32); 64];
+    let mut i = 0;
+    while i < 64 {
+        s[i] = (t[i], t[i + 1].wrapping_sub(t[i]));
+        i += 1;
+    }
+    s
+}
+
+/// ⌊log2 n⌋ for n = 1..=255 (entry 0 unused): the normalisation is one or two comparisons
+/// and one byte load (Armv6-M has no count-leading-zeros instruction, and
+/// `u32::leading_zeros` would call a library routine there).
+const FLOOR_LOG2_BYTE: [u8; 256] = floor_log2_byte();
+
+const fn floor_log2_byte() -> [u8; 256] {
+    let mut t = [0u8; 256];
+    let mut n = 2;
+    while n < 256 {
+        t[n] = t[n / 2] + 1;
+        n += 1;
+    }
+    t
+}
+
+/// Size of the normalisation table in bytes (for the README's memory figures).
+pub const FLOOR_LOG2_TABLE_BYTES: usize = core::mem::size_of::<[u8; 256]>();
+
+/// ⌊log2 n⌋ for 1 ≤ n ≤ 255.
+#[inline(always)]
+fn floor_log2_byte_of(n: u32) -> u32 {
+    u32::from(FLOOR_LOG2_BYTE.get(n as usize).copied().unwrap_or(0))
+}
+
+/// e = ⌊log2 x⌋ for a non-zero x.
+#[inline(always)]
+fn floor_log2(x: u32) -> u32 {
+    if x >= 1 << 16 {
+        if x >= 1 << 24 {
+            24 + floor_log2_byte_of(x >> 24)
+        } else {
+            16 + floor_log2_byte_of(x >> 16)
+        }
+    } else if x >= 1 << 8 {
+        8 + floor_log2_byte_of(x >> 8)
+    } else {
+        floor_log2_byte_of(x)
+    }
+}
 
 /// x = m · 2^(e − 31) with bit 31 of m set, e = ⌊log2 x⌋; x must be non-zero.
 #[inline]
 fn normalize(x: u32) -> (u32, i32) {
-    // Armv6-M has no count-leading-zeros instruction (and `u32::leading_zeros` would call a
-    // library routine there): three halvings of the search range, then a 16-entry table.
-    let mut e: u32 = 0;
-    let mut top = x;
-    if top >= 1 << 16 {
-        top >>= 16;
-        e = 16;
-    }
-    if top >= 1 << 8 {
-        top >>= 8;
-        e += 8;
-    }
-    if top >= 1 << 4 {
-        top >>= 4;
-        e += 4;
-    }
-    // 1 ≤ top ≤ 15 here.
-    e += u32::from(FLOOR_LOG2_NIBBLE.get(top as usize).copied().unwrap_or(0));
+    let e = floor_log2(x);
     (x.wrapping_shl(31u32.wrapping_sub(e)), e as i32)
 }
 
-/// The same as [`log2_q24`] for a 16-bit input, one halving shorter (the code chains take the
-/// logarithm of 16-bit codes; on Armv6-M this saves a few instructions a call).
+/// The same as [`log2_q24`] for a 16-bit input, one comparison shorter (the code chains take
+/// the logarithm of 16-bit codes).
 #[inline]
 pub fn log2_u16_q24(x: u16) -> i32 {
     if x == 0 {
         return LOG2_OF_ZERO;
     }
+    log2_nonzero_u16_q24(x)
+}
+
+/// [`log2_u16_q24`] for a caller that knows `x ≠ 0` (no zero test; 0 would give 0, not
+/// [`LOG2_OF_ZERO`]).
+#[inline]
+pub(crate) fn log2_nonzero_u16_q24(x: u16) -> i32 {
     let x = u32::from(x);
-    let mut e: u32 = 0;
-    let mut top = x;
-    if top >= 1 << 8 {
-        top >>= 8;
-        e = 8;
-    }
-    if top >= 1 << 4 {
-        top >>= 4;
-        e += 4;
-    }
-    e += u32::from(FLOOR_LOG2_NIBBLE.get(top as usize).copied().unwrap_or(0));
+    let e = if x >= 1 << 8 {
+        8 + floor_log2_byte_of(x >> 8)
+    } else {
+        floor_log2_byte_of(x)
+    };
     // e ≤ 15 and the mantissa log ≤ 2^24: the sum is < 2^28.
     ((e << 24).wrapping_add(log2_mantissa(x.wrapping_shl(31u32.wrapping_sub(e))))) as i32
+}
+
+/// [`log2_q24`] for a caller that knows `x ≠ 0` (no zero test; 0 would give 0, not
+/// [`LOG2_OF_ZERO`]).
+#[inline]
+pub(crate) fn log2_nonzero_q24(x: u32) -> i32 {
+    let (m, e) = normalize(x);
+    // e ≤ 31 and the mantissa log ≤ 2^24: the sum is < 2^29.
+    (e << 24).wrapping_add(log2_mantissa(m) as i32)
 }
 
 /// log2(m / 2^31) in Q8.24 (in `0..2^24`) for m with bit 31 set.
@@ -101,25 +147,22 @@ fn log2_mantissa(m: u32) -> u32 {
     // position inside the segment. The bits below are dropped (≤ 2^-18 of t).
     let t = m << 1;
     let idx = (t >> 26) as usize; // 0..=63
-    let frac = (t >> 14) & 0xFFF;
-    let lo = LOG2_TABLE.get(idx).copied().unwrap_or(0);
-    let hi = LOG2_TABLE.get(idx + 1).copied().unwrap_or(lo);
-    // hi − lo ≤ 375_270 < 2^19 and frac < 2^12: the product is < 2^31.
-    lo.wrapping_add(hi.wrapping_sub(lo).wrapping_mul(frac) >> 12)
+    let frac = (t << 6) >> 20;
+    let (lo, rise) = LOG2_SEGMENTS.get(idx).copied().unwrap_or((0, 0));
+    // rise ≤ 375_270 < 2^19 and frac < 2^12: the product is < 2^31.
+    lo.wrapping_add(rise.wrapping_mul(frac) >> 12)
 }
 
 /// log2(x) in Q8.24: for x ≥ 1 the result is in `0..32 · 2^24`. See the module doc for the
 /// error bound; `log2_q24(0)` returns [`LOG2_OF_ZERO`].
-// Inlined: on Armv6-M this saves about 12 of ~350 instructions per reading at the cost of
+// Inlined: on Armv6-M this saves about 12 of ~260 instructions per reading at the cost of
 // about 350 bytes of flash per chain (measured with host-tests/scripts/m0_instruction_count.py).
 #[inline]
 pub fn log2_q24(x: u32) -> i32 {
     if x == 0 {
         return LOG2_OF_ZERO;
     }
-    let (m, e) = normalize(x);
-    // e ≤ 31 and the mantissa log ≤ 2^24: the sum is < 2^29.
-    (e << 24).wrapping_add(log2_mantissa(m) as i32)
+    log2_nonzero_q24(x)
 }
 
 /// log2(hi · 2^32 + lo) in Q8.24 (in `0..64 · 2^24`), same error bound as [`log2_q24`]

@@ -35,13 +35,17 @@
 //! every pair of neighbouring reflected codes for its 25 dense forward codes and every step of
 //! its dBm differences; `host-tests/tests/fixed_props.rs` checks random pairs of every chain).
 //!
-//! Cost: tables of 260 + 260 + 16 bytes ([`log2::LOG2_TABLE_BYTES`],
-//! [`exp2::EXP2_TABLE_BYTES`]); per reading four logarithms, two exponentials and a few
-//! 16 × 16 multiplies ([`wide`]); no division, no 64-bit arithmetic and no floating point
-//! (`host-tests/tests/fixed_no_float.rs` checks the Cortex-M0 machine code). On Armv6-M
-//! (release, `opt-level = "s"`) `LinearChain::measure` runs 300–350 instructions for a
-//! valid reading and `SquareLawChain::measure` 280–325 (`host-tests/scripts/m0_instruction_count.py`;
-//! about 40 of them per logarithm); a refused reading returns in about 20.
+//! Cost: tables of 512 + 520 + 256 bytes ([`log2::LOG2_TABLE_BYTES`],
+//! [`exp2::EXP2_TABLE_BYTES`], [`log2::FLOOR_LOG2_TABLE_BYTES`]); per reading four
+//! logarithms, two exponentials and a few 16 × 16 multiplies ([`wide`]); no division, no
+//! 64-bit arithmetic and no floating point (`host-tests/tests/fixed_no_float.rs` checks the
+//! Cortex-M0 machine code). On Armv6-M (release, `opt-level = "s"`) `LinearChain::measure`
+//! runs 262 instructions for forward 50 000 / reflected 5 000 codes (`cargo bench-fw`, QEMU
+//! `microbit` single-step count, row `chain-fixed`; target ≤ 300), and 225–261 over the
+//! inputs of `host-tests/scripts/m0_instruction_count.py`; `SquareLawChain::measure` 239–262
+//! there. About 25 of them per logarithm: a byte table gives the leading-bit position in one
+//! or two comparisons and a load, and the interpolation tables hold (start, rise) pairs. A
+//! refused reading returns in about 20, a total reflection in about 50.
 //!
 //! Panic policy: nothing in this module panics and no value is NaN or infinite (there are
 //! none in integers); bad readings give [`FixedFault`], bad configurations

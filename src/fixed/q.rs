@@ -172,6 +172,12 @@ impl GammaQ31 {
         self.0
     }
 
+    /// |Γ| from raw bits the caller has proven to be `≤ 2^31` (no clamp).
+    #[inline]
+    pub(crate) const fn from_bits_within_one(bits: u32) -> Self {
+        GammaQ31(bits)
+    }
+
     /// |Γ| + `rhs`, clamped to 1.0.
     #[inline]
     pub const fn saturating_add(self, rhs: GammaQ31) -> Self {
@@ -197,6 +203,13 @@ impl GammaQ31 {
 pub struct VswrQ16(u32);
 
 impl VswrQ16 {
+    /// VSWR from raw bits the caller has proven to be in `2^16..=`[`VSWR_CEILING_Q16`]
+    /// (no clamp).
+    #[inline]
+    pub(crate) const fn from_bits_in_range(bits: u32) -> Self {
+        VswrQ16(bits)
+    }
+
     /// VSWR 1 (a perfect match).
     pub const ONE: VswrQ16 = VswrQ16(1 << 16);
     /// The ceiling, 1000 (a total reflection reads as this).

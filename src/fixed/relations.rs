@@ -115,8 +115,13 @@ pub(crate) fn vswr_from_log2(l: i32) -> (VswrQ16, bool) {
     if l >= LOG2_VSWR_CEILING_Q24 {
         (VswrQ16::CEILING, true)
     } else {
+        // 2^l ≥ 1 for l ≥ 0 (exact at 0, monotonic), so only the ceiling needs a test.
         let v = exp2_q16(l.max(0) as u32);
-        (VswrQ16::from_bits(v), v >= VSWR_CEILING_Q16)
+        if v >= VSWR_CEILING_Q16 {
+            (VswrQ16::CEILING, true)
+        } else {
+            (VswrQ16::from_bits_in_range(v), false)
+        }
     }
 }
 
