@@ -15,6 +15,10 @@ use std::process::Command;
 const TARGETS: [&str; 2] = ["thumbv6m-none-eabi", "thumbv7em-none-eabihf"];
 
 fn build(target: &str, overflow_checks: bool, canary: bool) -> (bool, String) {
+    build_features(target, overflow_checks, if canary { "canary" } else { "" })
+}
+
+fn build_features(target: &str, overflow_checks: bool, features: &str) -> (bool, String) {
     let root = Path::new(env!("CARGO_MANIFEST_DIR")).join("..");
     let cargo = std::env::var("CARGO").unwrap_or_else(|_| "cargo".to_string());
     let mut cmd = Command::new(cargo);
@@ -34,8 +38,8 @@ fn build(target: &str, overflow_checks: bool, canary: bool) -> (bool, String) {
             "profile.release.package.feedline.overflow-checks=true",
         ]);
     }
-    if canary {
-        cmd.args(["--features", "canary"]);
+    if !features.is_empty() {
+        cmd.args(["--features", features]);
     }
     let out = cmd.output().expect("cargo runs");
     (
@@ -87,4 +91,20 @@ fn a_reachable_panic_fails_the_link() {
         log.contains("undefined symbol: feedline_panic_path_reachable"),
         "the canary build failed for another reason:\n{log}"
     );
+}
+
+/// The text and byte-stream modules (report, command, touchstone, plot). Ignored for now: they
+/// reach core's float formatting (`core::num::flt2dec`, `bignum`) and `&str`-pattern search
+/// (`core::str::pattern::TwoWaySearcher`), both of which contain panic paths; writing numbers
+/// as scaled integers and matching on chars or bytes would remove them.
+#[test]
+#[ignore = "report/command/touchstone/plot reach core float formatting and str search"]
+fn text_modules_panic_free() {
+    for target in TARGETS {
+        let (ok, log) = build_features(target, false, "text");
+        assert!(
+            ok,
+            "panic-proof --features text for {target} did not link:\n{log}"
+        );
+    }
 }

@@ -270,11 +270,18 @@ mod proof {
             for x in r.iter() {
                 keep(x);
             }
-            keep(r.faults::<8>(&input(FaultSearch {
+            let faults = r.faults::<8>(&input(FaultSearch {
                 threshold: Db::new(30.0),
                 min_separation: Meters::new(0.5),
                 max_distance: Meters::new(40.0),
-            })));
+            }));
+            #[cfg(feature = "text")]
+            {
+                let mut sink = Sink(0);
+                keep(feedline::plot::fault_table(&mut sink, &faults));
+                keep(sink.0);
+            }
+            keep(faults);
         }
         let setup_no_loss = input(DtfSetup {
             start: Hertz::new(1.0e6),
@@ -345,6 +352,109 @@ mod proof {
         keep(res.found().len());
         keep(res.missed());
         keep(res.skipped());
+    }
+
+    /// A `core::fmt::Write` sink that keeps what it is given alive and stores nothing.
+    #[cfg(feature = "text")]
+    struct Sink(usize);
+
+    #[cfg(feature = "text")]
+    impl core::fmt::Write for Sink {
+        fn write_str(&mut self, s: &str) -> core::fmt::Result {
+            keep(s);
+            self.0 = self.0.wrapping_add(s.len());
+            Ok(())
+        }
+    }
+
+    /// The text and byte-stream modules (report, command, touchstone, plot). Behind the `text`
+    /// feature because they do not link yet: core's float formatting (`flt2dec`, `bignum`)
+    /// and `&str`-pattern search (`TwoWaySearcher`) that they reach contain panic paths.
+    #[cfg(feature = "text")]
+    fn prove_text() {
+        use feedline::command::{self, Console, Settings};
+        use feedline::report::{self, checksum, frame, line, FrameDecoder, Record};
+        let bytes = input([0x5Au8; 40]);
+        let n = input(40usize).min(bytes.len());
+        let payload = bytes.get(..n).unwrap_or(&bytes);
+        keep(checksum::crc32(payload));
+        let mut out = [0u8; 128];
+        let used = frame::encode_frame(input(3), payload, &mut out);
+        keep(used);
+        keep(frame::check_content(input(&out[..])).map(|f| (f.kind(), f.payload().len())));
+        let mut dec: FrameDecoder = input(FrameDecoder::new());
+        for &b in out.iter() {
+            if let Some(Ok(f)) = dec.push(input(b)) {
+                keep(Record::from_frame(&f));
+            }
+        }
+        dec.reset();
+        keep(&dec);
+        let mut sink = Sink(0);
+        if let Ok(r) = line::parse_line(input("p 100000000 1500 2000 0")) {
+            keep(r.validate());
+            keep(r.type_byte());
+            let mut p = [0u8; report::frame::MAX_PAYLOAD];
+            let len = r.encode_payload(&mut p);
+            keep(Record::from_payload(
+                input(r.type_byte()),
+                p.get(..len).unwrap_or(&p),
+            ));
+            keep(r.encode_frame(&mut out));
+            keep(line::write_line_fmt(&mut sink, &r));
+        }
+        keep(report::record::milliwatts(Watts::new(input(2.5))));
+        keep(report::record::vswr_milli(
+            Vswr::new(input(1.5)).unwrap_or(
+                Vswr::gamma(match Vswr::new(1.0) {
+                    Ok(v) => v,
+                    Err(_) => return,
+                })
+                .vswr(),
+            ),
+        ));
+        keep(report::record::return_loss_cdb(Db::new(input(20.0))));
+        keep(report::record::gamma_micro(input(0.25)));
+
+        keep(command::parse(input("show")));
+        let settings = input(Settings::default());
+        keep(settings.validate());
+        let image = settings.encode();
+        keep(Settings::decode(input(&image[..])));
+        let mut console: Console = input(Console::new(settings));
+        for &b in input(b"unlock 1234\nshow\n").iter() {
+            if let Some(r) = console.push(b, input(1000)) {
+                keep(r.reply.write_to(&mut sink));
+                keep(r.action);
+            }
+        }
+        if let Some(r) = console.handle_line(input("show"), input(2000)) {
+            keep(r.reply.write_to(&mut sink));
+        }
+        keep(console.is_locked(input(3000)));
+        keep(console.settings());
+        keep(console.rx_errors());
+
+        use feedline::touchstone::{DataFormat, FrequencyUnit, TouchstoneWriter};
+        if let Ok(mut w) = TouchstoneWriter::new(
+            Sink(0),
+            input(FrequencyUnit::MHz),
+            input(DataFormat::RealImaginary),
+            Ohms::new(input(50.0)),
+        ) {
+            keep(w.comment(input("bench")));
+            keep(w.option_line());
+            keep(w.point(Hertz::new(input(1.0e8)), c(0.1, -0.2)));
+            keep(w.points());
+            keep(w.finish().map(|s| s.0));
+        }
+
+        if let (Ok(top), Ok(th)) = (Vswr::new(input(3.0)), Vswr::new(input(2.0))) {
+            let chart = feedline::plot::VswrChart::new(input(40), top, Some(th));
+            keep(chart.header(&mut sink));
+            keep(chart.row(&mut sink, Hertz::new(input(1.0e8)), th, Some(input("min"))));
+        }
+        keep(sink.0);
     }
 
     fn prove_sweep_plan() {
@@ -789,6 +899,8 @@ mod proof {
         prove_dtf();
         prove_analysis();
         prove_sweep_plan();
+        #[cfg(feature = "text")]
+        prove_text();
         prove_monitor();
         prove_line();
         #[cfg(feature = "canary")]
