@@ -27,6 +27,7 @@ pub mod analysis;
 pub mod bridge;
 pub mod cable;
 pub mod calibration;
+pub mod checksum;
 pub mod command;
 pub mod detector;
 pub mod dtf;

@@ -65,15 +65,14 @@ fn no_panic_path_reachable_in_release() {
     check(false);
 }
 
-/// Stricter than the shipped profile. Ignored for now: with overflow checks on, add-overflow
-/// paths are still reachable, all in arithmetic whose bounds are argued in comments but not
-/// visible to the compiler: fixed::exp2 (mantissa_q24, `lo + …`), fixed::log2 (log2_q24,
-/// log2_u16_q24 `(e << 24) + …`, log2_u64_q24), fixed::chain (LinearChain::measure, db_core)
-/// and dtf::transform::finish. In release they cannot panic (they wrap). Run with
-/// `--ignored` to see them; remove the `ignore` once they use explicit wrapping_/
-/// saturating_/checked_ arithmetic.
+/// Stricter than the shipped profile. Ignored for now: with overflow checks on, multiply-overflow
+/// paths are still reachable, in arithmetic whose bounds are argued in comments but not visible
+/// to the compiler: fixed::chain (LinearChain::measure, SquareLawChain::measure, db_core) and
+/// dtf::transform::finish. In release they cannot panic (they wrap). Run with `--ignored` to
+/// see them; remove the `ignore` once they use explicit wrapping_/saturating_/checked_
+/// arithmetic.
 #[test]
-#[ignore = "add-overflow paths remain in fixed and dtf; see the doc comment"]
+#[ignore = "multiply-overflow paths remain in fixed::chain and dtf; see the doc comment"]
 fn no_overflow_panic_path_reachable_with_overflow_checks() {
     check(true);
 }

@@ -13,6 +13,7 @@
 //! so this does not wait on the cargo lock of the `cargo test` that runs it).
 
 use feedline_host_tests::reference::bridge_sim::{Law, Load, Scenario, Truth};
+use feedline_host_tests::reference::emu_vector;
 use feedline_host_tests::reference::scalar;
 use std::collections::HashMap;
 use std::io::Read;
@@ -201,7 +202,14 @@ fn model(m: &HashMap<String, String>) -> Scenario {
         z0: f32v(m, "z0"),
         load,
         cable_m: f32v(m, "cable-m"),
-        cable_db100: f32v(m, "cable-db100"),
+        cable_db100: match m.get("cable") {
+            // A named cable: its invented datasheet fitted in f64, at the scenario frequency.
+            Some(name) => {
+                let fit = emu_vector::cable_fit(name).unwrap_or_else(|| panic!("cable {name}"));
+                100.0 * emu_vector::alpha_db_per_m(fit, f32v(m, "freq-mhz"))
+            }
+            None => f32v(m, "cable-db100"),
+        },
         vf: f32v(m, "vf"),
         freq_mhz: f32v(m, "freq-mhz"),
         directivity: f32v(m, "directivity"),
@@ -238,7 +246,7 @@ fn capped_vswr(g: f64) -> f64 {
     }
 }
 
-/// Widest margin by which the truth had to use the code-error widening, for the printout.
+/// Worst agreement found, for the printout.
 #[derive(Default, Debug)]
 struct Worst {
     recompute_gamma: f64,
@@ -246,6 +254,24 @@ struct Worst {
     /// Largest (distance of the truth outside the printed range) / (widening allowed).
     widening_used: f64,
     where_: String,
+}
+
+impl std::fmt::Display for Worst {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(
+            f,
+            "worst |Γ| recomputed from codes {:.2e}, worst return loss {:.2e} dB; truth outside \
+             the printed range by at most {:.1} % of the code-error widening{}",
+            self.recompute_gamma,
+            self.recompute_rl,
+            100.0 * self.widening_used,
+            if self.where_.is_empty() {
+                String::new()
+            } else {
+                format!(" (at {})", self.where_)
+            }
+        )
+    }
 }
 
 /// The outcome of one reading as the report gives it.
@@ -529,7 +555,35 @@ fn check_case(args: &[&str], worst: &mut Worst) -> String {
         m => check_measured(&s, codes, m, Some(truth), &ctx, worst),
     }
     check_cable(&s, &report, &ctx);
+    check_simulated_truth(&s, &report, &ctx);
     report
+}
+
+/// The firmware's own (f32) simulation against the f64 model: |Γ| at the load and at the
+/// port, and the cable loss (printed to 6 and 4 decimals).
+fn check_simulated_truth(s: &Scenario, report: &str, ctx: &str) {
+    let lines = section(report, "simulated truth");
+    let g = numbers(need(&lines, "|Γ|"));
+    let at_load = feedline_host_tests::reference::bridge_sim::gamma_load(s.load, s.z0).norm();
+    close(
+        &format!("{ctx} sim |Γ| at load"),
+        g[0],
+        at_load,
+        SIM_F32_SLACK,
+    );
+    close(
+        &format!("{ctx} sim |Γ| at port"),
+        g[1],
+        s.truth().gamma,
+        SIM_F32_SLACK,
+    );
+    let loss = numbers(need(&lines, "cable loss"))[0];
+    close(
+        &format!("{ctx} sim cable loss"),
+        loss,
+        s.cable_loss_db(),
+        1e-4,
+    );
 }
 
 #[test]
@@ -550,7 +604,7 @@ fn named_scenarios_match_the_f64_model() {
             "{name} should measure"
         );
     }
-    println!("named scenarios: {worst:?}");
+    println!("named scenarios: {worst}");
 }
 
 #[test]
@@ -589,7 +643,7 @@ fn overrides_reach_the_simulation() {
     let b = run(&other).1;
     let refl = |r: &str| numbers(need(&section(r, "reading"), "codes"))[1];
     assert_ne!(refl(&a), refl(&b), "--load-r had no effect");
-    println!("overrides: {worst:?}");
+    println!("overrides: {worst}");
 }
 
 #[test]
@@ -724,5 +778,5 @@ fn random_scenarios_match_the_f64_model() {
         let args: Vec<&str> = v.iter().map(String::as_str).collect();
         check_case(&args, &mut worst);
     }
-    println!("random scenarios ({CASES}): {worst:?}");
+    println!("random scenarios ({CASES}): {worst}");
 }

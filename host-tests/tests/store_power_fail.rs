@@ -330,3 +330,29 @@ impl EncodeVec for Table {
         v
     }
 }
+
+mod random_damage {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(500))]
+
+        /// Random bytes written anywhere over two stored records: the load gives the older
+        /// record, the newer one, or a typed error — never a panic or any other table.
+        #[test]
+        fn random_damage_never_yields_another_table(at in 0usize..(2 * SLOT as usize), data in prop::collection::vec(any::<u8>(), 1..64)) {
+            let (mut f, newer, seq) = prepared::<4>(2);
+            let older = table(0.0);
+            let end = (at + data.len()).min(2 * SLOT as usize);
+            f.poke(BASE as usize + at, &data[..end - at]);
+            let mut buf = buffer::<4>();
+            match store(f).load::<Table>(&mut buf) {
+                Ok(l) => prop_assert!(
+                    (l.record == newer && l.sequence == seq) || (l.record == older && l.sequence == seq - 1)
+                ),
+                Err(e) => prop_assert!(matches!(e, StoreError::Corrupt)),
+            }
+        }
+    }
+}

@@ -109,7 +109,18 @@ impl<const N: usize> CalTable<N> {
                 return Ok(());
             }
         }
-        self.points.insert(idx, point).map_err(|_| CalError::Full)
+        // Append, then move the new point down to `idx` by adjacent swaps (no indexing,
+        // no panic path: `heapless::Vec::insert` asserts its index).
+        self.points.push(point).map_err(|_| CalError::Full)?;
+        let s = self.points.as_mut_slice();
+        let mut k = s.len();
+        while k > idx.saturating_add(1) {
+            if let Some([a, b]) = k.checked_sub(2).and_then(|lo| s.get_mut(lo..k)) {
+                core::mem::swap(a, b);
+            }
+            k -= 1;
+        }
+        Ok(())
     }
 
     /// Solves the terms at `f` from raw open, short and load readings and the standards'

@@ -3,10 +3,11 @@
 //! [`Settings`] those commands change, with a CRC-checked byte image for the
 //! power-fail-safe store.
 //!
-//! - [`parse`]: the command words and their grammar (our own), and [`CommandError`].
+//! - [`mod@parse`]: the command words and their grammar (our own), and [`CommandError`].
 //! - [`console`]: byte-at-a-time line assembly into a fixed buffer, the lock with its
 //!   timeout, reply lines, and the [`Action`]s left to the application.
-//! - [`settings`]: the [`Settings`] struct, ranges, `encode`/`decode`.
+//! - [`settings`]: the [`Settings`] struct, ranges, `encode`/`decode`, and its
+//!   [`crate::store::Record`] implementation for the power-fail-safe A/B store.
 //!
 //! ```
 //! use feedline::command::{Console, Settings, Reply, CommandError};
@@ -31,4 +32,4 @@ pub mod settings;
 
 pub use console::{Action, Console, Reply, Response, UNLOCK_WINDOW_MS};
 pub use parse::{parse, CalStep, Command, CommandError};
-pub use settings::{ReportFormat, Settings, SettingsError};
+pub use settings::{ReportFormat, Settings, SettingsError, SETTINGS_TAG};

@@ -2,13 +2,23 @@
 //!
 //! [`Settings::encode`] gives a fixed [`ENCODED_LEN`]-byte image: a layout version byte,
 //! the fields little-endian in declaration order, and a CRC-32/ISO-HDLC of all bytes before
-//! it ([`crate::report::checksum`]). [`Settings::decode`] checks the version, the CRC and
+//! it ([`crate::checksum`]). [`Settings::decode`] checks the version, the CRC and
 //! every field's range, so a torn or stale image is refused and the device falls back to
 //! the other slot of the store or to [`Settings::DEFAULT`].
 //!
+//! Settings are kept with the same power-fail-safe A/B store as the calibration: they
+//! implement [`crate::store::Record`] (tag [`SETTINGS_TAG`], version 1), whose payload is
+//! the image above. The store adds its own header and CRC; the image's inner CRC-32
+//! costs 4 bytes and keeps the image self-checking when used on its own. Give the settings
+//! their own store region, apart from the calibration's.
+//!
 //! Panic policy: nothing here panics.
 
-use crate::report::checksum;
+use crate::checksum;
+use crate::store::{CodecError, Record};
+
+/// The store record type tag of [`Settings`].
+pub const SETTINGS_TAG: u16 = 0x5E77;
 
 /// Layout version of the encoded image.
 pub const SETTINGS_VERSION: u8 = 1;
@@ -253,6 +263,33 @@ impl Settings {
         };
         s.validate()?;
         Ok(s)
+    }
+}
+
+impl Record for Settings {
+    const TYPE_TAG: u16 = SETTINGS_TAG;
+    const VERSION: u16 = SETTINGS_VERSION as u16;
+    const MAX_ENCODED_LEN: usize = ENCODED_LEN;
+
+    fn encode(&self, out: &mut [u8]) -> Result<usize, CodecError> {
+        let slot = out
+            .get_mut(..ENCODED_LEN)
+            .ok_or(CodecError::BufferTooSmall)?;
+        for (d, s) in slot.iter_mut().zip(Settings::encode(self)) {
+            *d = s;
+        }
+        Ok(ENCODED_LEN)
+    }
+
+    fn decode(version: u16, bytes: &[u8]) -> Result<Self, CodecError> {
+        if version != Self::VERSION {
+            return Err(CodecError::UnsupportedVersion);
+        }
+        Settings::decode(bytes).map_err(|e| match e {
+            SettingsError::Length => CodecError::Truncated,
+            SettingsError::Version => CodecError::UnsupportedVersion,
+            _ => CodecError::Malformed,
+        })
     }
 }
 

@@ -46,7 +46,7 @@ fn mantissa_q24(f: u32) -> u32 {
     let lo = EXP2_TABLE.get(idx).copied().unwrap_or(1 << 24);
     let hi = EXP2_TABLE.get(idx + 1).copied().unwrap_or(lo);
     // hi − lo ≤ 361_448 < 2^19 and frac < 2^12: the product is < 2^31; the sum < 2^25.
-    lo + (((hi - lo) * frac) >> 12)
+    lo.wrapping_add(hi.wrapping_sub(lo).wrapping_mul(frac) >> 12)
 }
 
 /// 2^(−a) in Q1.31 (`0..=2^31`, where 2^31 is 1.0) for a ≥ 0 in Q8.24.

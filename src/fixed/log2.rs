@@ -68,7 +68,7 @@ fn normalize(x: u32) -> (u32, i32) {
     }
     // 1 ≤ top ≤ 15 here.
     e += u32::from(FLOOR_LOG2_NIBBLE.get(top as usize).copied().unwrap_or(0));
-    (x << (31 - e), e as i32)
+    (x.wrapping_shl(31u32.wrapping_sub(e)), e as i32)
 }
 
 /// The same as [`log2_q24`] for a 16-bit input, one halving shorter (the code chains take the
@@ -91,7 +91,7 @@ pub fn log2_u16_q24(x: u16) -> i32 {
     }
     e += u32::from(FLOOR_LOG2_NIBBLE.get(top as usize).copied().unwrap_or(0));
     // e ≤ 15 and the mantissa log ≤ 2^24: the sum is < 2^28.
-    ((e << 24) + log2_mantissa(x << (31 - e))) as i32
+    ((e << 24).wrapping_add(log2_mantissa(x.wrapping_shl(31u32.wrapping_sub(e))))) as i32
 }
 
 /// log2(m / 2^31) in Q8.24 (in `0..2^24`) for m with bit 31 set.
@@ -105,7 +105,7 @@ fn log2_mantissa(m: u32) -> u32 {
     let lo = LOG2_TABLE.get(idx).copied().unwrap_or(0);
     let hi = LOG2_TABLE.get(idx + 1).copied().unwrap_or(lo);
     // hi − lo ≤ 375_270 < 2^19 and frac < 2^12: the product is < 2^31.
-    lo + (((hi - lo) * frac) >> 12)
+    lo.wrapping_add(hi.wrapping_sub(lo).wrapping_mul(frac) >> 12)
 }
 
 /// log2(x) in Q8.24: for x ≥ 1 the result is in `0..32 · 2^24`. See the module doc for the
@@ -119,7 +119,7 @@ pub fn log2_q24(x: u32) -> i32 {
     }
     let (m, e) = normalize(x);
     // e ≤ 31 and the mantissa log ≤ 2^24: the sum is < 2^29.
-    (e << 24) + log2_mantissa(m) as i32
+    (e << 24).wrapping_add(log2_mantissa(m) as i32)
 }
 
 /// log2(hi · 2^32 + lo) in Q8.24 (in `0..64 · 2^24`), same error bound as [`log2_q24`]
@@ -131,14 +131,14 @@ pub fn log2_u64_q24(hi: u32, lo: u32) -> i32 {
         return log2_q24(lo);
     }
     let (m_hi, e) = normalize(hi); // hi = m_hi · 2^(e − 31), 0 ≤ e ≤ 31
-    let s = (31 - e) as u32; // left shift applied to hi, 0..=31
+    let s = 31i32.wrapping_sub(e) as u32; // left shift applied to hi, 0..=31
     let m = if s == 0 {
         m_hi
     } else {
-        m_hi | (lo >> (32 - s))
+        m_hi | lo.wrapping_shr(32u32.wrapping_sub(s))
     };
     // value ≈ m · 2^(e + 1): e + 1 + 31 ≤ 63, the sum < 2^30.
-    ((e + 32) << 24) + log2_mantissa(m) as i32
+    (e.wrapping_add(32) << 24).wrapping_add(log2_mantissa(m) as i32)
 }
 
 #[cfg(test)]

@@ -4,7 +4,7 @@
 //!
 //! - [`record`]: the records (monitor reading, sweep point, status) as fixed-point integers
 //!   in stated units, and their binary payloads.
-//! - [`line`]: one record a line, fixed field order, units stated, version field, CRC-32.
+//! - [`mod@line`]: one record a line, fixed field order, units stated, version field, CRC-32.
 //! - [`frame`]: length, type, payload, CRC-32, COBS-stuffed between `0x00` delimiters.
 //! - [`cobs`]: Consistent Overhead Byte Stuffing (Cheshire & Baker 1999).
 //! - [`checksum`]: CRC-32/ISO-HDLC from the published CRC catalogue (1 KiB table).
@@ -20,7 +20,7 @@
 //! Panic policy: no public function here panics; writers that accept zero bytes give an
 //! error instead of the panic in `embedded_io::Write::write_all`.
 
-pub mod checksum;
+pub use crate::checksum;
 pub mod cobs;
 pub mod frame;
 pub mod line;

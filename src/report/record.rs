@@ -428,6 +428,48 @@ impl Record {
     }
 }
 
+impl MonitorRecord {
+    /// The record for a report of the fixed-point in-line [`crate::monitor::Monitor`],
+    /// taken at device time `time_ms`. Powers are rounded from µW to mW; VSWR and return
+    /// loss are rounded from Q16.16 to thousandths and hundredths. Flags: `ALARM` and
+    /// `TRIP` when the alarm is tripped (the protection output follows it), `UNDER` when
+    /// the forward power is below the monitor's gate; `PEAK` and `OVER` are never set (the
+    /// report carries averages, and the monitor flags no over-range).
+    pub fn from_report(report: &crate::monitor::Report, time_ms: u32) -> MonitorRecord {
+        let mw = |uw: u32| uw.saturating_add(500) / 1000;
+        let vswr = (u64::from(report.vswr.to_bits())
+            .saturating_mul(1000)
+            .saturating_add(32_768))
+            >> 16;
+        let vswr = u32::try_from(vswr)
+            .unwrap_or(VSWR_MILLI_MAX)
+            .clamp(1000, VSWR_MILLI_MAX);
+        let rl = (i64::from(report.return_loss.to_bits())
+            .saturating_mul(100)
+            .saturating_add(32_768))
+            >> 16;
+        let rl = u16::try_from(rl.clamp(0, i64::from(RL_CDB_MAX))).unwrap_or(RL_CDB_MAX);
+        let tripped = report.alarm == crate::monitor::AlarmState::Tripped;
+        let mut flags = 0u8;
+        if tripped {
+            flags |= MonitorFlags::ALARM | MonitorFlags::TRIP;
+        }
+        if !report.transmitting {
+            flags |= MonitorFlags::UNDER;
+        }
+        MonitorRecord {
+            seq: report.sequence,
+            time_ms,
+            forward_mw: mw(report.forward_uw),
+            reflected_mw: mw(report.reflected_uw),
+            delivered_mw: mw(report.delivered_uw),
+            vswr_milli: vswr,
+            return_loss_cdb: rl,
+            flags: MonitorFlags(flags),
+        }
+    }
+}
+
 /// Power in watts to record milliwatts: `None` for NaN, negative or above `u32::MAX` mW.
 pub fn milliwatts(p: Watts) -> Option<u32> {
     let mw = p.value() * 1000.0;
@@ -492,6 +534,39 @@ mod tests {
         assert_eq!(return_loss_cdb(Db::new(400.0)), Some(RL_CDB_MAX));
         assert_eq!(gamma_micro(-0.25), Some(-250_000));
         assert_eq!(gamma_micro(3.0), None);
+    }
+
+    #[test]
+    fn from_monitor_report() {
+        use crate::fixed::{DbQ16, VswrQ16};
+        use crate::monitor::{AlarmState, Report};
+        let rep = Report {
+            sequence: 9,
+            forward_uw: 1_500_000_499,
+            reflected_uw: 12_500_500,
+            delivered_uw: 1_487_500_000,
+            transmitting: true,
+            vswr: VswrQ16::from_bits(78_643), // 1.19999… → 1.200
+            return_loss: DbQ16::from_bits(1_365_115), // 20.83 dB
+            peak_forward_uw: 0,
+            peak_vswr: None,
+            alarm: AlarmState::Tripped,
+            pin_errors: 0,
+        };
+        let m = MonitorRecord::from_report(&rep, 77);
+        assert_eq!(
+            (
+                m.seq,
+                m.time_ms,
+                m.forward_mw,
+                m.reflected_mw,
+                m.delivered_mw
+            ),
+            (9, 77, 1_500_000, 12_501, 1_487_500)
+        );
+        assert_eq!((m.vswr_milli, m.return_loss_cdb), (1200, 2083));
+        assert_eq!(m.flags.bits(), MonitorFlags::ALARM | MonitorFlags::TRIP);
+        assert_eq!(m.validate(), Ok(()));
     }
 
     #[test]

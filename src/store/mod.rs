@@ -18,20 +18,19 @@
 //! 12  payload length      u32
 //! 16  payload             length bytes (Record::encode)
 //! ..  padding 0xFF        to make the body a multiple of the write unit, CRC included
-//! ..  CRC-32C             u32 over every byte before it (magic … padding)
+//! ..  CRC-32            u32 over every byte before it (magic … padding)
 //! ..  commit unit         "FLOK" then 0xFF up to one write unit
 //! ```
 //! The write unit is the largest of 4 bytes and the flash's `READ_SIZE` and `WRITE_SIZE`
 //! (all powers of two). Every byte of the layout is checked on load, so any single-bit
 //! flip is detected.
 //!
-//! CRC: CRC-32C (Castagnoli polynomial 0x1EDC6F41, the `crc` crate's `CRC_32_ISCSI`;
-//! G. Castagnoli, S. Bräuer, M. Herrmann, IEEE Trans. Communications 41(6), 1993). Like any
-//! 32-bit CRC it detects every burst error up to 32 bits long, so every single-bit flip;
-//! its Hamming distance is at least 4 for any record a slot can hold (from memory, after
-//! P. Koopman's CRC tables). The host tests flip every bit of a stored record and check
-//! that each flip is caught. The `crc` crate is `no_std`; its one-lane table costs 1 KiB of
-//! flash (256 × `u32`).
+//! CRC: CRC-32/ISO-HDLC ([`crate::checksum`], shared with the serial reports so a firmware
+//! carries one 1 KiB table). Like any 32-bit CRC it detects every burst error up to 32 bits
+//! long, so every single-bit flip (W. W. Peterson and D. T. Brown, Proc. IRE 49(1), 1961);
+//! its Hamming distance is at least 4 for messages up to 91 607 bits (from memory, after
+//! P. Koopman's CRC tables), far beyond any record a slot holds. The host tests flip every
+//! bit of a stored record and check that each flip is caught.
 //!
 //! # Records
 //! Anything implementing [`Record`] can be stored: a type tag, a version, and an

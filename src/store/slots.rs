@@ -3,13 +3,12 @@
 //! Panic policy: nothing here panics; every offset is computed with checked arithmetic and
 //! every buffer access is bounds-checked.
 
-use crc::{Crc, CRC_32_ISCSI};
 use embedded_storage::nor_flash::{NorFlash, NorFlashError};
 
 use super::{Record, StoreError};
 
-/// The CRC used for records: CRC-32C (Castagnoli), one-lane table (1 KiB).
-static CRC: Crc<u32> = Crc::<u32>::new(&CRC_32_ISCSI);
+/// The CRC used for records: the crate's one CRC, CRC-32/ISO-HDLC ([`crate::checksum`]).
+use crate::checksum::CRC32 as CRC;
 
 const MAGIC: [u8; 4] = *b"FLR1";
 const COMMIT: [u8; 4] = *b"FLOK";

@@ -15,7 +15,8 @@
 //! Γ near +1 (an open) makes Z unbounded and Γ near −1 (a short) makes Y unbounded: the
 //! normalised ratio |Z|/Z0 (or |Y|·Z0) is capped at [`RATIO_CEILING`] with the direction
 //! kept, and [`Impedance::is_capped`] / [`Admittance::is_capped`] say so. The division
-//! is done as n·conj(d/|d|)/|d|, which cannot overflow inside the cap.
+//! n/d compares squared norms and uses one reciprocal when both are of ordinary size, and
+//! otherwise goes through `hypotf` as n·conj(d/|d|)/|d|; neither can overflow inside the cap.
 //!
 //! Supported: any finite Γ within the raw limit, including |Γ| > 1 (negative R, as an
 //! uncorrected reading near an open can give). Parallel equivalents that are infinite
@@ -37,8 +38,33 @@ pub const Q_CEILING: f32 = 1.0e6;
 /// The smallest and largest reference impedance accepted, in ohms.
 pub const Z0_RANGE: (f32, f32) = (1.0e-3, 1.0e6);
 
+/// The range of |n|² and |d|² taken by the fast path of [`capped_ratio`]: well inside
+/// normal `f32`, so that no product in it can overflow or lose all precision.
+const FAST_NORM_RANGE: (f32, f32) = (1.0e-30, 1.0e30);
+
 /// n/d with |n/d| capped at `ceiling`. Returns the quotient and whether it was capped.
+///
+/// Fast path (all inputs of ordinary size): compare squared norms, one reciprocal. Otherwise
+/// (a squared norm outside [`FAST_NORM_RANGE`]) the same with `hypotf`.
 fn capped_ratio(n: Complex32, d: Complex32, ceiling: f32) -> (Complex32, bool) {
+    let nn2 = n.norm_sqr();
+    let dn2 = d.norm_sqr();
+    let (lo, hi) = FAST_NORM_RANGE;
+    if nn2 <= hi && dn2 >= lo && dn2 <= hi && nn2 < ceiling * ceiling * dn2 {
+        let inv = 1.0 / dn2;
+        return (
+            Complex32::new(
+                (n.re * d.re + n.im * d.im) * inv,
+                (n.im * d.re - n.re * d.im) * inv,
+            ),
+            false,
+        );
+    }
+    capped_ratio_scaled(n, d, ceiling)
+}
+
+/// [`capped_ratio`] through `hypotf`, safe for any finite inputs.
+fn capped_ratio_scaled(n: Complex32, d: Complex32, ceiling: f32) -> (Complex32, bool) {
     let nn = libm::hypotf(n.re, n.im);
     let dn = libm::hypotf(d.re, d.im);
     if nn >= ceiling * dn {

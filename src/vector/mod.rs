@@ -6,6 +6,8 @@
 //! * [`impedance`] — Z = Z0·(1 + Γ)/(1 − Γ) and Y = 1/Z with R, X, |Z|, angle, series and
 //!   parallel equivalents, the equivalent L or C at a frequency and Q. Γ near +1 (an open)
 //!   or −1 (a short) is handled by a capped ratio, never by an overflow.
+//! * [`display_angle`] — whole-degree angles for a display, from micromath's fast `atan2`
+//!   with its measured bound.
 //! * [`phase_sign`] — resolves the sign of a phase known only in magnitude from how the
 //!   reactance and the susceptance change across a small frequency step (Foster's
 //!   reactance theorem), and flags the cases it cannot decide.
@@ -23,10 +25,12 @@
 //! non-finite or out-of-range input gives a [`VectorError`], and a result that would be
 //! unbounded is capped and flagged.
 
+pub mod display_angle;
 pub mod gamma;
 pub mod impedance;
 pub mod phase_sign;
 
+pub use display_angle::{display_angle_degrees, DISPLAY_ANGLE_BOUND_DEG};
 pub use gamma::{gamma_from_db_phase, gamma_from_iq, gamma_from_wave_ratio};
 pub use impedance::{Admittance, Impedance, ParallelEquivalent, Reactive, RATIO_CEILING};
 pub use phase_sign::{resolve_phase_sign, Ambiguity, PhaseSign, PhaseSignConfig};

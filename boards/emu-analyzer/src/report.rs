@@ -6,7 +6,7 @@
 //! core gives bounds. The host tests parse these lines, so keep labels stable.
 
 use crate::frontend::{Load, SimFrontEnd};
-use crate::scenario::{ArgError, LawKind, Scenario, PRESETS};
+use crate::scenario::{ArgError, LawKind, Scenario, PRESETS, SECTIONS};
 use core::fmt::{Result, Write};
 use feedline::bridge::{Fault, Measurement, Quality, RawPair};
 use feedline::cable::{CableError, CableLoss};
@@ -37,10 +37,15 @@ pub fn replay_options(w: &mut impl Write, s: &Scenario) -> Result {
         Load::Short => write!(w, " --load short")?,
         Load::Impedance { r, x } => write!(w, " --load-r {r} --load-x {x}")?,
     }
+    write!(w, " --cable-m {}", s.cable_m)?;
+    match s.cable_type {
+        Some(c) => write!(w, " --cable {}", c.name)?,
+        None => write!(w, " --cable-db100 {}", s.cable_db100)?,
+    }
     write!(
         w,
-        " --cable-m {} --cable-db100 {} --vf {} --freq-mhz {} --directivity {} --leak-phase {}",
-        s.cable_m, s.cable_db100, s.vf, s.freq_mhz, s.directivity, s.leak_phase
+        " --vf {} --freq-mhz {} --directivity {} --leak-phase {}",
+        s.vf, s.freq_mhz, s.directivity, s.leak_phase
     )?;
     write!(w, " --law {}", s.law.name())?;
     match s.law {
@@ -55,7 +60,34 @@ pub fn replay_options(w: &mut impl Write, s: &Scenario) -> Result {
         w,
         " --adc-bits {} --vref {} --offset {} --noise {} --avg {} --seed {} --floor-lsb {}",
         s.adc_bits, s.vref, s.offset, s.noise, s.avg, s.seed, s.floor_lsb
-    )
+    )?;
+    write!(
+        w,
+        " --e00-mag {} --e00-deg {} --e11-mag {} --e11-deg {} --track-mag {} --track-deg {}",
+        s.e00.0, s.e00.1, s.e11.0, s.e11.1, s.track.0, s.track.1
+    )?;
+    write!(
+        w,
+        " --sweep-start-mhz {} --sweep-stop-mhz {} --points {} --ant-f0-mhz {} --ant-q {} \
+         --ant-r {} --fault-m {} --fault-rl {}",
+        s.sweep_start_mhz,
+        s.sweep_stop_mhz,
+        s.points,
+        s.ant_f0_mhz,
+        s.ant_q,
+        s.ant_r,
+        s.fault_m,
+        s.fault_rl
+    )?;
+    write!(w, " --sections ")?;
+    let mut first = true;
+    for (sec, name) in SECTIONS {
+        if s.has(sec) {
+            write!(w, "{}{name}", if first { "" } else { "+" })?;
+            first = false;
+        }
+    }
+    Ok(())
 }
 
 /// The scenario: what is simulated, in words and as options.
@@ -65,11 +97,24 @@ pub fn scenario(w: &mut impl Write, s: &Scenario) -> Result {
     write!(w, "  {:<16}", "load")?;
     write_load(w, s.load)?;
     writeln!(w, " in a {} ohm system", s.z0)?;
-    writeln!(
-        w,
-        "  {:<16}{} m, {} dB/100 m matched loss, velocity factor {}, at {} MHz",
-        "cable", s.cable_m, s.cable_db100, s.vf, s.freq_mhz
-    )?;
+    match s.cable_type {
+        Some(c) => writeln!(
+            w,
+            "  {:<16}{} m of {} ({}), {:.3} dB/100 m at {} MHz by its model, velocity factor {}",
+            "cable",
+            s.cable_m,
+            c.name,
+            c.title,
+            s.loss_db100(),
+            s.freq_mhz,
+            s.vf
+        )?,
+        None => writeln!(
+            w,
+            "  {:<16}{} m, {} dB/100 m matched loss, velocity factor {}, at {} MHz",
+            "cable", s.cable_m, s.cable_db100, s.vf, s.freq_mhz
+        )?,
+    }
     writeln!(
         w,
         "  {:<16}directivity {} dB, leakage phase {} deg",
@@ -331,7 +376,16 @@ pub fn usage(w: &mut impl Write, e: ArgError<'_>) -> Result {
     )?;
     writeln!(
         w,
-        "  --avg 1|4|16|64 --seed --floor-lsb   (see the emu-analyzer README)"
+        "  --avg 1|4|16|64 --seed --floor-lsb --cable NAME --e00-mag --e00-deg --e11-mag"
+    )?;
+    writeln!(
+        w,
+        "  --e11-deg --track-mag --track-deg --sweep-start-mhz --sweep-stop-mhz --points"
+    )?;
+    writeln!(w, "  --ant-f0-mhz --ant-q --ant-r --fault-m --fault-rl")?;
+    writeln!(
+        w,
+        "  --sections reading+cable+line+cal+sweep   (see the emu-analyzer README)"
     )?;
     presets(w)
 }

@@ -5,6 +5,7 @@
 //! from its named preset (`--scenario NAME`, default [`DEFAULT`]) and every other option
 //! overrides one field. Unknown options, stray words and unparsable values are refused.
 
+use crate::cable_types::{self, CableType};
 use crate::frontend::{AdcModel, Cable, FrontEndConfig, Law, Load};
 use emu_support::args::{options, Item};
 
@@ -80,7 +81,61 @@ pub struct Scenario {
     pub seed: u32,
     /// Detector noise floor given to the core, in LSB.
     pub floor_lsb: f32,
+    /// A named cable (its datasheet model sets the loss at every frequency), or `None` for
+    /// the flat `cable_db100` at the scenario frequency.
+    pub cable_type: Option<&'static CableType>,
+    /// Which report sections run (bits of [`Section`]).
+    pub sections: u8,
+    /// Vector bridge directivity term e00: magnitude and phase (degrees) at 100 MHz.
+    pub e00: (f32, f32),
+    /// Vector bridge source-match term e11: magnitude and phase (degrees) at 100 MHz.
+    pub e11: (f32, f32),
+    /// Vector bridge reflection tracking e10e01: magnitude and phase (degrees) at 100 MHz.
+    pub track: (f32, f32),
+    /// Sweep start, MHz.
+    pub sweep_start_mhz: f32,
+    /// Sweep stop, MHz.
+    pub sweep_stop_mhz: f32,
+    /// Sweep points.
+    pub points: u16,
+    /// Sweep antenna (series RLC): resonance, MHz.
+    pub ant_f0_mhz: f32,
+    /// Sweep antenna: Q.
+    pub ant_q: f32,
+    /// Sweep antenna: resistance at resonance, Ω.
+    pub ant_r: f32,
+    /// Distance of the connector fault from the analyzer, m (none if not inside the cable).
+    pub fault_m: f32,
+    /// Return loss of the connector fault, dB.
+    pub fault_rl: f32,
 }
+
+/// The report sections, as bits of [`Scenario::sections`].
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Section {
+    /// `[reading]`: the scalar reading of the load.
+    Reading = 1,
+    /// `[cable check ...]`: open and short at the far end.
+    Cable = 2,
+    /// `[line model ...]`: the cable described by the core's line models.
+    Line = 4,
+    /// `[calibration ...]`: vector open/short/load calibration, stored and reloaded.
+    Cal = 8,
+    /// `[sweep ...]`, `[touchstone ...]`, `[distance to fault]`.
+    Sweep = 16,
+}
+
+/// Every section, in report order, with its option name.
+pub const SECTIONS: [(Section, &str); 5] = [
+    (Section::Reading, "reading"),
+    (Section::Cable, "cable"),
+    (Section::Line, "line"),
+    (Section::Cal, "cal"),
+    (Section::Sweep, "sweep"),
+];
+
+/// The sweep's largest point count.
+pub const MAX_POINTS: u16 = 256;
 
 const fn preset(name: &'static str, title: &'static str) -> Scenario {
     Scenario {
@@ -106,6 +161,19 @@ const fn preset(name: &'static str, title: &'static str) -> Scenario {
         avg: 16,
         seed: 1,
         floor_lsb: 2.0,
+        cable_type: None,
+        sections: 0x1F,
+        e00: (0.12, 35.0),
+        e11: (0.18, -120.0),
+        track: (0.82, -40.0),
+        sweep_start_mhz: 120.0,
+        sweep_stop_mhz: 170.0,
+        points: 101,
+        ant_f0_mhz: 145.5,
+        ant_q: 9.0,
+        ant_r: 44.0,
+        fault_m: 6.0,
+        fault_rl: 24.0,
     }
 }
 
@@ -115,6 +183,7 @@ pub const PRESETS: [Scenario; 6] = [
         load: Load::Impedance { r: 38.0, x: -9.0 },
         cable_m: 15.0,
         cable_db100: 9.5,
+        cable_type: Some(&cable_types::CABLES[0]),
         freq_mhz: 145.0,
         directivity: 32.0,
         leak_phase: 70.0,
@@ -278,7 +347,45 @@ impl Scenario {
                 self.load = Load::Impedance { r, x };
             }
             "cable-m" => self.cable_m = num(v, 0.0, 10_000.0).map_err(bad)?,
-            "cable-db100" => self.cable_db100 = num(v, 0.0, 200.0).map_err(bad)?,
+            "cable-db100" => {
+                self.cable_db100 = num(v, 0.0, 200.0).map_err(bad)?;
+                self.cable_type = None;
+            }
+            "cable" => {
+                let c = CableType::named(v).ok_or(ArgError::BadValue(name, v))?;
+                self.cable_type = Some(c);
+                self.vf = c.vf;
+            }
+            "sections" => {
+                let mut bits = 0u8;
+                for word in v.split('+') {
+                    let (sec, _) = SECTIONS
+                        .iter()
+                        .find(|(_, n)| *n == word)
+                        .ok_or(ArgError::BadValue(name, v))?;
+                    bits |= *sec as u8;
+                }
+                self.sections = bits;
+            }
+            "e00-mag" => self.e00.0 = num(v, 0.0, 0.5).map_err(bad)?,
+            "e00-deg" => self.e00.1 = num(v, -360.0, 360.0).map_err(bad)?,
+            "e11-mag" => self.e11.0 = num(v, 0.0, 0.5).map_err(bad)?,
+            "e11-deg" => self.e11.1 = num(v, -360.0, 360.0).map_err(bad)?,
+            "track-mag" => self.track.0 = num(v, 0.1, 1.0).map_err(bad)?,
+            "track-deg" => self.track.1 = num(v, -360.0, 360.0).map_err(bad)?,
+            "sweep-start-mhz" => self.sweep_start_mhz = num(v, 0.1, 10_000.0).map_err(bad)?,
+            "sweep-stop-mhz" => self.sweep_stop_mhz = num(v, 0.1, 10_000.0).map_err(bad)?,
+            "points" => {
+                self.points = match v.parse::<u16>() {
+                    Ok(n) if (16..=MAX_POINTS).contains(&n) => n,
+                    _ => return Err(ArgError::BadValue(name, v)),
+                }
+            }
+            "ant-f0-mhz" => self.ant_f0_mhz = num(v, 0.1, 10_000.0).map_err(bad)?,
+            "ant-q" => self.ant_q = num(v, 0.5, 500.0).map_err(bad)?,
+            "ant-r" => self.ant_r = num(v, 1.0, 1000.0).map_err(bad)?,
+            "fault-m" => self.fault_m = num(v, 0.0, 10_000.0).map_err(bad)?,
+            "fault-rl" => self.fault_rl = num(v, 3.0, 60.0).map_err(bad)?,
             "vf" => self.vf = num(v, 0.05, 1.0).map_err(bad)?,
             "freq-mhz" => self.freq_mhz = num(v, 0.001, 100_000.0).map_err(bad)?,
             "directivity" => self.directivity = num(v, 0.0, 80.0).map_err(bad)?,
@@ -322,6 +429,33 @@ impl Scenario {
         Ok(())
     }
 
+    /// True when section `sec` is selected.
+    pub fn has(&self, sec: Section) -> bool {
+        self.sections & sec as u8 != 0
+    }
+
+    /// The cable's loss model (named datasheet fit, or the flat loss at the scenario
+    /// frequency as pure conductor loss).
+    pub fn loss_model(&self) -> Option<feedline::line::LossModel> {
+        cable_types::loss_model(self.cable_type, self.cable_db100, self.freq_mhz)
+    }
+
+    /// The cable's matched loss at the scenario frequency, dB per 100 m, from its model.
+    pub fn loss_db100(&self) -> f32 {
+        match self.cable_type {
+            None => self.cable_db100,
+            Some(_) => self
+                .loss_model()
+                .and_then(|m| {
+                    m.attenuation::<feedline::units::Meters>(feedline::units::Hertz::new(
+                        self.freq_mhz * 1.0e6,
+                    ))
+                    .ok()
+                })
+                .map_or(self.cable_db100, |a| a.value() * 100.0),
+        }
+    }
+
     /// The simulation's configuration.
     pub fn front_end(&self) -> FrontEndConfig {
         self.front_end_with(self.load)
@@ -334,7 +468,7 @@ impl Scenario {
             load,
             cable: Cable {
                 length_m: self.cable_m,
-                loss_db_per_100m: self.cable_db100,
+                loss_db_per_100m: self.loss_db100(),
                 velocity_factor: self.vf,
             },
             freq_hz: self.freq_mhz * 1.0e6,

@@ -21,6 +21,9 @@
 fn main() {}
 
 #[cfg(target_os = "none")]
+mod proto;
+
+#[cfg(target_os = "none")]
 mod proof {
     use core::hint::black_box as input;
     use feedline::bridge::{self, BridgeAdc, BridgeSpec, Detector, Quality, RawPair, ScalarChain};
@@ -29,7 +32,7 @@ mod proof {
     use feedline::reflection::{Gamma, Vswr};
     use feedline::uncertainty;
     use feedline::units::{
-        Db, Dbm, Hertz, Meters, Np, Ohms, PowerRatio, VoltageRatio, Volts, Watts,
+        Db, Dbm, Hertz, Meters, Np, Ohms, PowerRatio, Seconds, VoltageRatio, Volts, Watts,
     };
     use num_complex::Complex32;
 
@@ -125,7 +128,7 @@ mod proof {
         keep(mean_of(codes.get(..n).unwrap_or(&codes)));
     }
 
-    fn prove_vector() {
+    fn prove_vector_all() {
         use feedline::vector::*;
         keep(gamma_from_db_phase(Db::new(input(-20.0)), input(45.0)));
         keep(gamma_from_iq(input(0.1), input(-0.2)));
@@ -176,7 +179,7 @@ mod proof {
         }
     }
 
-    fn prove_calibration() {
+    fn prove_calibration_all() {
         use feedline::calibration::*;
         let model = input(StandardsModel::ideal(Ohms::new(input(50.0))));
         keep(model.gammas_at(Hertz::new(input(1.0e8))));
@@ -666,6 +669,197 @@ mod proof {
         keep(q.bits());
     }
 
+    fn prove_vector() {
+        use feedline::vector::{
+            gamma_from_db_phase, gamma_from_iq, gamma_from_wave_ratio, resolve_phase_sign,
+            Admittance, Impedance, PhaseSign, PhaseSignConfig,
+        };
+        let g = Complex32::new(input(0.3), input(-0.2));
+        keep(gamma_from_db_phase(Db::new(input(-10.0)), input(45.0)));
+        keep(feedline::vector::display_angle_degrees(g));
+        keep(gamma_from_iq(input(0.1), input(0.2)));
+        keep(gamma_from_wave_ratio(
+            g,
+            Complex32::new(input(1.0), input(0.0)),
+        ));
+        if let Ok(z) = Impedance::from_gamma(g, Ohms::new(input(50.0))) {
+            keep(z.gamma());
+            keep(z.is_capped());
+            keep(z.reference());
+            keep(z.complex());
+            keep(z.normalized());
+            keep(z.resistance());
+            keep(z.reactance());
+            keep(z.magnitude());
+            keep(z.angle_deg());
+            keep(z.parallel());
+            keep(z.series_element(Hertz::new(input(1.0e6))));
+            keep(z.parallel_element(Hertz::new(input(1.0e6))));
+            keep(z.q());
+            let y = z.admittance();
+            keep(y.is_capped());
+            keep(y.complex());
+            keep(y.normalized());
+            keep(y.conductance());
+            keep(y.susceptance());
+            keep(y.magnitude());
+            keep(y.impedance());
+            keep(y.parallel());
+            keep(y.element(Hertz::new(input(1.0e6))));
+        }
+        keep(Impedance::new(
+            Ohms::new(input(25.0)),
+            Ohms::new(input(30.0)),
+            Ohms::new(input(50.0)),
+        ));
+        keep(Admittance::from_gamma(g, Ohms::new(input(50.0))));
+        let sign = resolve_phase_sign(
+            Hertz::new(input(1.0e6)),
+            g,
+            Hertz::new(input(1.01e6)),
+            Complex32::new(input(0.31), input(0.2)),
+            Ohms::new(input(50.0)),
+            &input(PhaseSignConfig::default()),
+        );
+        if let Ok(s) = sign {
+            keep(s.apply(g));
+        }
+        keep(input(PhaseSign::Positive).apply(g));
+    }
+
+    fn prove_calibration() {
+        use feedline::calibration::{
+            CalTable, LoadStandard, OnePortTerms, OpenStandard, ResponseCal, ShortStandard,
+            StandardsModel,
+        };
+        use feedline::store::Record;
+        let c = |a: f32, b: f32| Complex32::new(input(a), input(b));
+        let model = input(StandardsModel {
+            open: OpenStandard {
+                capacitance: [input(40.0), input(1.0), input(0.1), input(0.01)],
+                delay: Seconds::new(input(20.0e-12)),
+            },
+            short: ShortStandard {
+                inductance: [input(10.0), input(1.0), input(0.1), input(0.01)],
+                delay: Seconds::new(input(20.0e-12)),
+            },
+            load: LoadStandard {
+                gamma: c(0.01, 0.0),
+            },
+            z0: Ohms::new(input(50.0)),
+        });
+        keep(StandardsModel::ideal(Ohms::new(input(50.0))).gammas_at(Hertz::new(input(1.0e6))));
+        keep(model.gammas_at(Hertz::new(input(1.0e9))));
+        let terms = OnePortTerms::from_standards(
+            c(0.9, 0.1),
+            c(-0.8, 0.0),
+            c(0.05, 0.01),
+            &model,
+            Hertz::new(input(1.0e6)),
+        );
+        keep(OnePortTerms::from_known(
+            [c(1.0, 0.0), c(-1.0, 0.0), c(0.0, 0.0)],
+            [c(0.9, 0.1), c(-0.8, 0.0), c(0.05, 0.01)],
+        ));
+        if let Ok(t) = terms {
+            keep(t.directivity());
+            keep(t.source_match());
+            keep(t.tracking());
+            keep(t.correct(c(0.3, 0.3)));
+            keep(t.distort(c(0.3, 0.3)));
+            keep(t.lerp(&OnePortTerms::IDENTITY, input(0.5)));
+        }
+        keep(OnePortTerms::new(c(0.01, 0.0), c(0.02, 0.0), c(0.9, 0.0)));
+        let mut table = CalTable::<32>::new();
+        keep(table.insert(Hertz::new(input(2.0e6)), input(OnePortTerms::IDENTITY)));
+        keep(table.calibrate_point(
+            Hertz::new(input(1.0e6)),
+            c(0.9, 0.1),
+            c(-0.8, 0.0),
+            c(0.05, 0.01),
+            &model,
+        ));
+        keep(table.terms_at(Hertz::new(input(1.5e6))));
+        keep(table.correct(Hertz::new(input(1.5e6)), c(0.2, 0.1)));
+        keep(table.range());
+        keep(table.len());
+        keep(table.is_empty());
+        keep(table.capacity());
+        keep(table.points().len());
+        let mut bytes = [0u8; 4 + 28 * 32];
+        keep(table.encode(&mut bytes));
+        keep(CalTable::<32>::decode(input(1), &input(bytes)).map(|t| t.len()));
+        table.clear();
+        if let Ok(r) = ResponseCal::from_open_short(
+            VoltageRatio::new(input(0.84)),
+            VoltageRatio::new(input(0.76)),
+        ) {
+            keep(r.tracking());
+            keep(r.correct(VoltageRatio::new(input(0.4))));
+        }
+    }
+
+    /// A flash whose contents and results the optimizer cannot see.
+    struct OpaqueFlash;
+
+    impl embedded_storage::nor_flash::ErrorType for OpaqueFlash {
+        type Error = embedded_storage::nor_flash::NorFlashErrorKind;
+    }
+
+    impl embedded_storage::nor_flash::ReadNorFlash for OpaqueFlash {
+        const READ_SIZE: usize = 1;
+        fn read(&mut self, _offset: u32, bytes: &mut [u8]) -> Result<(), Self::Error> {
+            for b in bytes.iter_mut() {
+                *b = input(0xFF);
+            }
+            input(Ok(()))
+        }
+        fn capacity(&self) -> usize {
+            input(65_536)
+        }
+    }
+
+    impl embedded_storage::nor_flash::NorFlash for OpaqueFlash {
+        const WRITE_SIZE: usize = 4;
+        const ERASE_SIZE: usize = 4096;
+        fn erase(&mut self, from: u32, to: u32) -> Result<(), Self::Error> {
+            keep((from, to));
+            input(Ok(()))
+        }
+        fn write(&mut self, offset: u32, bytes: &[u8]) -> Result<(), Self::Error> {
+            keep((offset, bytes.len()));
+            input(Ok(()))
+        }
+    }
+
+    fn prove_store() {
+        use feedline::calibration::CalTable;
+        use feedline::store::{ByteReader, ByteWriter, Store};
+        let mut buf = [0u8; 1024];
+        if let Ok(mut store) = Store::new(OpaqueFlash, input(0), input(8192)) {
+            let table = input(CalTable::<16>::new());
+            keep(store.save(&table, &mut buf));
+            keep(store.load::<CalTable<16>>(&mut buf).map(|l| l.sequence));
+            keep(store.erase());
+            keep(Store::<OpaqueFlash>::buffer_len::<CalTable<16>>());
+            keep(store.release());
+        }
+        let mut w = ByteWriter::new(&mut buf);
+        keep(w.put_u8(input(1)));
+        keep(w.put_u16(input(2)));
+        keep(w.put_u32(input(3)));
+        keep(w.put_f32(input(4.0)));
+        keep(w.put_bytes(&input([5u8; 3])));
+        keep(w.position());
+        let mut r = ByteReader::new(&buf);
+        keep(r.get_u8());
+        keep(r.get_u16());
+        keep(r.get_u32());
+        keep(r.get_finite_f32());
+        keep(r.remaining());
+        keep(r.finish());
+    }
+
     /// A protection pin whose writes fail when the optimizer cannot tell.
     struct ProofPin;
     impl embedded_hal::digital::ErrorType for ProofPin {
@@ -684,10 +878,8 @@ mod proof {
         }
     }
 
-    /// A stand-in chain: the monitor's own state machine is proven here apart from
-    /// `PowerChain`. `PowerChain` links in the release proof, but with overflow checks on, the
-    /// plain additions in `fixed::log2` / `fixed::exp2` still leave overflow panic paths; add
-    /// `keep(PowerChain.figures(reading))` here once those use wrapping arithmetic.
+    /// A stand-in chain whose figures come straight from the inputs, so the monitor's state
+    /// machine sees every VSWR; `PowerChain` is proven beside it.
     struct ProofChain;
     impl feedline::monitor::LineMath for ProofChain {
         fn figures(&self, r: feedline::monitor::PowerReading) -> feedline::monitor::LineFigures {
@@ -742,6 +934,15 @@ mod proof {
             keep(m.alarm_state());
             keep(m.protection().error_count());
             keep(m.config().hold_off);
+        }
+        keep(feedline::monitor::PowerChain.figures(input(reading)));
+        if let Ok(mut m) = Monitor::<_, _, 16>::new(
+            config,
+            feedline::monitor::PowerChain,
+            ProofPin,
+            input(PinSense::PermitHigh),
+        ) {
+            keep(m.update(input(reading)));
         }
     }
 
@@ -894,15 +1095,20 @@ mod proof {
         prove_detector();
         prove_bridge();
         prove_fixed();
-        prove_vector();
-        prove_calibration();
+        prove_vector_all();
+        prove_calibration_all();
         prove_dtf();
         prove_analysis();
         prove_sweep_plan();
         #[cfg(feature = "text")]
         prove_text();
+        prove_vector();
+        prove_calibration();
+        prove_store();
         prove_monitor();
         prove_line();
+        crate::proto::prove_report();
+        crate::proto::prove_command();
         #[cfg(feature = "canary")]
         {
             let table = input([1u8; 4]);

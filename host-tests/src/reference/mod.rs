@@ -5,6 +5,8 @@
 
 pub mod bridge_sim;
 pub mod calibration;
+pub mod crc32;
+pub mod emu_vector;
 pub mod fixed_scalar;
 pub mod line;
 pub mod line_faults;

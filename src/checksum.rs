@@ -1,4 +1,5 @@
-//! The one CRC used by reports, frames and stored settings: CRC-32/ISO-HDLC.
+//! The one CRC of the crate — reports, frames, stored settings and every record in the
+//! store: CRC-32/ISO-HDLC. One CRC means one 1 KiB table in flash.
 //!
 //! Parameters as catalogued in Greg Cook's *Catalogue of parametrised CRC algorithms*
 //! (CRC RevEng): width 32, poly 0x04C11DB7, init 0xFFFFFFFF, refin/refout true,
