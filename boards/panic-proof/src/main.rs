@@ -128,6 +128,111 @@ mod proof {
         keep(mean_of(codes.get(..n).unwrap_or(&codes)));
     }
 
+    fn prove_vector_all() {
+        use feedline::vector::*;
+        keep(gamma_from_db_phase(Db::new(input(-20.0)), input(45.0)));
+        keep(gamma_from_iq(input(0.1), input(-0.2)));
+        keep(gamma_from_wave_ratio(c(0.1, 0.2), c(1.0, 0.0)));
+        let g = c(0.2, 0.1);
+        if let Ok(z) = Impedance::from_gamma(g, Ohms::new(input(50.0))) {
+            keep(z.gamma());
+            keep(z.is_capped());
+            keep(z.reference());
+            keep(z.complex());
+            keep(z.normalized());
+            keep(z.resistance());
+            keep(z.reactance());
+            keep(z.magnitude());
+            keep(z.angle_deg());
+            keep(z.admittance());
+            keep(z.parallel());
+            keep(z.series_element(Hertz::new(input(1.0e7))));
+            keep(z.parallel_element(Hertz::new(input(1.0e7))));
+            keep(z.q());
+        }
+        keep(Impedance::new(
+            Ohms::new(input(30.0)),
+            Ohms::new(input(10.0)),
+            Ohms::new(input(50.0)),
+        ));
+        if let Ok(y) = Admittance::from_gamma(g, Ohms::new(input(50.0))) {
+            keep(y.is_capped());
+            keep(y.complex());
+            keep(y.normalized());
+            keep(y.conductance());
+            keep(y.susceptance());
+            keep(y.magnitude());
+            keep(y.impedance());
+            keep(y.parallel());
+            keep(y.element(Hertz::new(input(1.0e7))));
+        }
+        let cfg = input(PhaseSignConfig::default());
+        if let Ok(sign) = resolve_phase_sign(
+            Hertz::new(input(1.0e7)),
+            c(0.3, 0.4),
+            Hertz::new(input(1.1e7)),
+            c(0.25, 0.45),
+            Ohms::new(input(50.0)),
+            &cfg,
+        ) {
+            keep(sign.apply(c(0.3, 0.4)));
+        }
+    }
+
+    fn prove_calibration_all() {
+        use feedline::calibration::*;
+        let model = input(StandardsModel::ideal(Ohms::new(input(50.0))));
+        keep(model.gammas_at(Hertz::new(input(1.0e8))));
+        let t = OnePortTerms::new(c(0.04, 0.03), c(0.1, -0.05), c(0.9, 0.1));
+        keep(t);
+        keep(OnePortTerms::from_known(
+            [c(1.0, 0.0), c(-1.0, 0.0), c(0.0, 0.0)],
+            [c(0.9, 0.1), c(-0.8, 0.05), c(0.03, 0.01)],
+        ));
+        let f = Hertz::new(input(1.0e8));
+        keep(OnePortTerms::from_standards(
+            c(0.9, 0.1),
+            c(-0.8, 0.05),
+            c(0.03, 0.01),
+            &model,
+            f,
+        ));
+        if let Ok(t) = t {
+            keep(t.directivity());
+            keep(t.source_match());
+            keep(t.tracking());
+            keep(t.correct(c(0.2, 0.1)));
+            keep(t.distort(c(0.2, 0.1)));
+            keep(t.lerp(&OnePortTerms::IDENTITY, input(0.5)));
+            let mut table: CalTable<8> = input(CalTable::new());
+            keep(table.insert(f, t));
+            keep(table.insert(Hertz::new(input(2.0e8)), t));
+            keep(table.calibrate_point(
+                Hertz::new(input(3.0e8)),
+                c(0.9, 0.1),
+                c(-0.8, 0.05),
+                c(0.03, 0.01),
+                &model,
+            ));
+            keep(table.terms_at(Hertz::new(input(1.5e8))));
+            keep(table.correct(Hertz::new(input(1.5e8)), c(0.2, 0.1)));
+            keep(table.len());
+            keep(table.is_empty());
+            keep(table.capacity());
+            keep(table.points().len());
+            keep(table.range());
+            table.clear();
+            keep(table);
+        }
+        if let Ok(r) = ResponseCal::from_open_short(
+            VoltageRatio::new(input(0.9)),
+            VoltageRatio::new(input(0.92)),
+        ) {
+            keep(r.tracking());
+            keep(r.correct(VoltageRatio::new(input(0.3))));
+        }
+    }
+
     fn prove_dtf() {
         use feedline::dtf::*;
         let mut buf = [Complex32::new(0.0, 0.0); 64];
@@ -168,11 +273,18 @@ mod proof {
             for x in r.iter() {
                 keep(x);
             }
-            keep(r.faults::<8>(&input(FaultSearch {
+            let faults = r.faults::<8>(&input(FaultSearch {
                 threshold: Db::new(30.0),
                 min_separation: Meters::new(0.5),
                 max_distance: Meters::new(40.0),
-            })));
+            }));
+            #[cfg(feature = "text")]
+            {
+                let mut sink = Sink(0);
+                keep(feedline::plot::fault_table(&mut sink, &faults));
+                keep(sink.0);
+            }
+            keep(faults);
         }
         let setup_no_loss = input(DtfSetup {
             start: Hertz::new(1.0e6),
@@ -243,6 +355,109 @@ mod proof {
         keep(res.found().len());
         keep(res.missed());
         keep(res.skipped());
+    }
+
+    /// A `core::fmt::Write` sink that keeps what it is given alive and stores nothing.
+    #[cfg(feature = "text")]
+    struct Sink(usize);
+
+    #[cfg(feature = "text")]
+    impl core::fmt::Write for Sink {
+        fn write_str(&mut self, s: &str) -> core::fmt::Result {
+            keep(s);
+            self.0 = self.0.wrapping_add(s.len());
+            Ok(())
+        }
+    }
+
+    /// The text and byte-stream modules (report, command, touchstone, plot). Behind the `text`
+    /// feature because they do not link yet: core's float formatting (`flt2dec`, `bignum`)
+    /// and `&str`-pattern search (`TwoWaySearcher`) that they reach contain panic paths.
+    #[cfg(feature = "text")]
+    fn prove_text() {
+        use feedline::command::{self, Console, Settings};
+        use feedline::report::{self, checksum, frame, line, FrameDecoder, Record};
+        let bytes = input([0x5Au8; 40]);
+        let n = input(40usize).min(bytes.len());
+        let payload = bytes.get(..n).unwrap_or(&bytes);
+        keep(checksum::crc32(payload));
+        let mut out = [0u8; 128];
+        let used = frame::encode_frame(input(3), payload, &mut out);
+        keep(used);
+        keep(frame::check_content(input(&out[..])).map(|f| (f.kind(), f.payload().len())));
+        let mut dec: FrameDecoder = input(FrameDecoder::new());
+        for &b in out.iter() {
+            if let Some(Ok(f)) = dec.push(input(b)) {
+                keep(Record::from_frame(&f));
+            }
+        }
+        dec.reset();
+        keep(&dec);
+        let mut sink = Sink(0);
+        if let Ok(r) = line::parse_line(input("p 100000000 1500 2000 0")) {
+            keep(r.validate());
+            keep(r.type_byte());
+            let mut p = [0u8; report::frame::MAX_PAYLOAD];
+            let len = r.encode_payload(&mut p);
+            keep(Record::from_payload(
+                input(r.type_byte()),
+                p.get(..len).unwrap_or(&p),
+            ));
+            keep(r.encode_frame(&mut out));
+            keep(line::write_line_fmt(&mut sink, &r));
+        }
+        keep(report::record::milliwatts(Watts::new(input(2.5))));
+        keep(report::record::vswr_milli(
+            Vswr::new(input(1.5)).unwrap_or(
+                Vswr::gamma(match Vswr::new(1.0) {
+                    Ok(v) => v,
+                    Err(_) => return,
+                })
+                .vswr(),
+            ),
+        ));
+        keep(report::record::return_loss_cdb(Db::new(input(20.0))));
+        keep(report::record::gamma_micro(input(0.25)));
+
+        keep(command::parse(input("show")));
+        let settings = input(Settings::default());
+        keep(settings.validate());
+        let image = settings.encode();
+        keep(Settings::decode(input(&image[..])));
+        let mut console: Console = input(Console::new(settings));
+        for &b in input(b"unlock 1234\nshow\n").iter() {
+            if let Some(r) = console.push(b, input(1000)) {
+                keep(r.reply.write_to(&mut sink));
+                keep(r.action);
+            }
+        }
+        if let Some(r) = console.handle_line(input("show"), input(2000)) {
+            keep(r.reply.write_to(&mut sink));
+        }
+        keep(console.is_locked(input(3000)));
+        keep(console.settings());
+        keep(console.rx_errors());
+
+        use feedline::touchstone::{DataFormat, FrequencyUnit, TouchstoneWriter};
+        if let Ok(mut w) = TouchstoneWriter::new(
+            Sink(0),
+            input(FrequencyUnit::MHz),
+            input(DataFormat::RealImaginary),
+            Ohms::new(input(50.0)),
+        ) {
+            keep(w.comment(input("bench")));
+            keep(w.option_line());
+            keep(w.point(Hertz::new(input(1.0e8)), c(0.1, -0.2)));
+            keep(w.points());
+            keep(w.finish().map(|s| s.0));
+        }
+
+        if let (Ok(top), Ok(th)) = (Vswr::new(input(3.0)), Vswr::new(input(2.0))) {
+            let chart = feedline::plot::VswrChart::new(input(40), top, Some(th));
+            keep(chart.header(&mut sink));
+            keep(chart.row(&mut sink, Hertz::new(input(1.0e8)), th, Some(input("min"))));
+        }
+        keep(sink.0);
     }
 
     fn prove_sweep_plan() {
@@ -880,12 +1095,16 @@ mod proof {
         prove_detector();
         prove_bridge();
         prove_fixed();
-        prove_vector();
-        prove_calibration();
-        prove_store();
+        prove_vector_all();
+        prove_calibration_all();
         prove_dtf();
         prove_analysis();
         prove_sweep_plan();
+        #[cfg(feature = "text")]
+        prove_text();
+        prove_vector();
+        prove_calibration();
+        prove_store();
         prove_monitor();
         prove_line();
         crate::proto::prove_report();

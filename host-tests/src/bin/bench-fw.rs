@@ -1079,7 +1079,7 @@ fn met_text(row: &Row, m0: Option<u64>, m4f: Option<u64>, m4f_stack: Option<u32>
                 parts.push(format!("yes ({})", core.label()));
             } else {
                 parts.push(format!(
-                    "no ({}: +{}, {:.1}×)",
+                    "no ({}: +{}, {:.2}×)",
                     core.label(),
                     got - limit,
                     got as f64 / limit as f64
@@ -1486,7 +1486,7 @@ mod tests {
     fn met_says_by_how_much() {
         let row = &ROWS.iter().find(|r| r.id == "chain-f32").unwrap();
         assert_eq!(met_text(row, None, Some(80), None), "yes (M4F)");
-        assert_eq!(met_text(row, None, Some(160), None), "no (M4F: +80, 2.0×)");
+        assert_eq!(met_text(row, None, Some(160), None), "no (M4F: +80, 2.00×)");
     }
 
     #[test]
