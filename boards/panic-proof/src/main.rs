@@ -128,111 +128,6 @@ mod proof {
         keep(mean_of(codes.get(..n).unwrap_or(&codes)));
     }
 
-    fn prove_vector_all() {
-        use feedline::vector::*;
-        keep(gamma_from_db_phase(Db::new(input(-20.0)), input(45.0)));
-        keep(gamma_from_iq(input(0.1), input(-0.2)));
-        keep(gamma_from_wave_ratio(c(0.1, 0.2), c(1.0, 0.0)));
-        let g = c(0.2, 0.1);
-        if let Ok(z) = Impedance::from_gamma(g, Ohms::new(input(50.0))) {
-            keep(z.gamma());
-            keep(z.is_capped());
-            keep(z.reference());
-            keep(z.complex());
-            keep(z.normalized());
-            keep(z.resistance());
-            keep(z.reactance());
-            keep(z.magnitude());
-            keep(z.angle_deg());
-            keep(z.admittance());
-            keep(z.parallel());
-            keep(z.series_element(Hertz::new(input(1.0e7))));
-            keep(z.parallel_element(Hertz::new(input(1.0e7))));
-            keep(z.q());
-        }
-        keep(Impedance::new(
-            Ohms::new(input(30.0)),
-            Ohms::new(input(10.0)),
-            Ohms::new(input(50.0)),
-        ));
-        if let Ok(y) = Admittance::from_gamma(g, Ohms::new(input(50.0))) {
-            keep(y.is_capped());
-            keep(y.complex());
-            keep(y.normalized());
-            keep(y.conductance());
-            keep(y.susceptance());
-            keep(y.magnitude());
-            keep(y.impedance());
-            keep(y.parallel());
-            keep(y.element(Hertz::new(input(1.0e7))));
-        }
-        let cfg = input(PhaseSignConfig::default());
-        if let Ok(sign) = resolve_phase_sign(
-            Hertz::new(input(1.0e7)),
-            c(0.3, 0.4),
-            Hertz::new(input(1.1e7)),
-            c(0.25, 0.45),
-            Ohms::new(input(50.0)),
-            &cfg,
-        ) {
-            keep(sign.apply(c(0.3, 0.4)));
-        }
-    }
-
-    fn prove_calibration_all() {
-        use feedline::calibration::*;
-        let model = input(StandardsModel::ideal(Ohms::new(input(50.0))));
-        keep(model.gammas_at(Hertz::new(input(1.0e8))));
-        let t = OnePortTerms::new(c(0.04, 0.03), c(0.1, -0.05), c(0.9, 0.1));
-        keep(t);
-        keep(OnePortTerms::from_known(
-            [c(1.0, 0.0), c(-1.0, 0.0), c(0.0, 0.0)],
-            [c(0.9, 0.1), c(-0.8, 0.05), c(0.03, 0.01)],
-        ));
-        let f = Hertz::new(input(1.0e8));
-        keep(OnePortTerms::from_standards(
-            c(0.9, 0.1),
-            c(-0.8, 0.05),
-            c(0.03, 0.01),
-            &model,
-            f,
-        ));
-        if let Ok(t) = t {
-            keep(t.directivity());
-            keep(t.source_match());
-            keep(t.tracking());
-            keep(t.correct(c(0.2, 0.1)));
-            keep(t.distort(c(0.2, 0.1)));
-            keep(t.lerp(&OnePortTerms::IDENTITY, input(0.5)));
-            let mut table: CalTable<8> = input(CalTable::new());
-            keep(table.insert(f, t));
-            keep(table.insert(Hertz::new(input(2.0e8)), t));
-            keep(table.calibrate_point(
-                Hertz::new(input(3.0e8)),
-                c(0.9, 0.1),
-                c(-0.8, 0.05),
-                c(0.03, 0.01),
-                &model,
-            ));
-            keep(table.terms_at(Hertz::new(input(1.5e8))));
-            keep(table.correct(Hertz::new(input(1.5e8)), c(0.2, 0.1)));
-            keep(table.len());
-            keep(table.is_empty());
-            keep(table.capacity());
-            keep(table.points().len());
-            keep(table.range());
-            table.clear();
-            keep(table);
-        }
-        if let Ok(r) = ResponseCal::from_open_short(
-            VoltageRatio::new(input(0.9)),
-            VoltageRatio::new(input(0.92)),
-        ) {
-            keep(r.tracking());
-            keep(r.correct(VoltageRatio::new(input(0.3))));
-        }
-    }
-
     fn prove_dtf() {
         use feedline::dtf::*;
         let mut buf = [Complex32::new(0.0, 0.0); 64];
@@ -1095,8 +990,6 @@ mod proof {
         prove_detector();
         prove_bridge();
         prove_fixed();
-        prove_vector_all();
-        prove_calibration_all();
         prove_dtf();
         prove_analysis();
         prove_sweep_plan();
