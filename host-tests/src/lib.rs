@@ -9,6 +9,7 @@
 #![deny(missing_docs)]
 
 pub mod capture;
+pub mod qemu;
 pub mod reference;
 pub mod serial_capture;
 pub mod sim_flash;

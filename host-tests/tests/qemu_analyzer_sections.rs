@@ -18,6 +18,7 @@
 //!
 //! Every test fails (does not skip) when qemu-system-arm is missing.
 
+use feedline_host_tests::qemu::{self, Machine};
 use feedline_host_tests::reference::calibration as cal;
 use feedline_host_tests::reference::emu_vector::{self as ev, SweepScenario};
 use feedline_host_tests::reference::line as rl;
@@ -25,11 +26,10 @@ use feedline_host_tests::reference::series_rlc::SeriesRlc;
 use feedline_host_tests::reference::touchstone_spec::parse_one_port;
 use num_complex::Complex64;
 use std::collections::HashMap;
-use std::io::Read;
 use std::path::PathBuf;
 use std::process::{Command, Stdio};
 use std::sync::OnceLock;
-use std::time::{Duration, Instant};
+use std::time::Duration;
 
 /// Wall-clock limit of one QEMU run.
 const RUN_TIMEOUT: Duration = Duration::from_secs(30);
@@ -78,46 +78,15 @@ fn firmware() -> &'static PathBuf {
     })
 }
 
-/// Runs the firmware with `args`; (exit code, UART text).
+/// Runs the firmware with `args` on its semihosting command line; (exit code, UART text).
 fn run(args: &[&str]) -> (i32, String) {
-    let mut semi = String::from("enable=on,target=native,arg=emu-analyzer");
-    for a in args {
-        assert!(!a.contains(','), "QEMU splits arg= at commas: {a}");
-        semi.push_str(",arg=");
-        semi.push_str(a);
-    }
-    let mut child = Command::new("qemu-system-arm")
-        .args(["-cpu", "cortex-m4", "-machine", "mps2-an386", "-nographic"])
-        .args(["-monitor", "none", "-serial", "stdio"])
-        .arg("-semihosting-config")
-        .arg(&semi)
-        .arg("-kernel")
-        .arg(firmware())
-        .stdin(Stdio::null())
-        .stdout(Stdio::piped())
-        .stderr(Stdio::piped())
-        .spawn()
-        .expect("start qemu-system-arm");
-    let mut out = child.stdout.take().expect("piped stdout");
-    let reader = std::thread::spawn(move || {
-        let mut s = String::new();
-        let _ = out.read_to_string(&mut s);
-        s
-    });
-    let start = Instant::now();
-    let status = loop {
-        if let Some(st) = child.try_wait().expect("wait for qemu") {
-            break st;
-        }
-        if start.elapsed() > RUN_TIMEOUT {
-            let _ = child.kill();
-            let _ = child.wait();
-            panic!("qemu run {args:?} did not finish within {RUN_TIMEOUT:?}");
-        }
-        std::thread::sleep(Duration::from_millis(5));
-    };
-    let text = reader.join().expect("reader thread");
-    (status.code().unwrap_or(-1), text.replace('\r', ""))
+    qemu::run(
+        Machine::Mps2An386,
+        firmware(),
+        "emu-analyzer",
+        args,
+        RUN_TIMEOUT,
+    )
 }
 
 /// Runs and requires a complete report.

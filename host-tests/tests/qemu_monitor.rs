@@ -10,11 +10,12 @@
 //! A missing `qemu-system-arm` fails these tests (install it with `cargo verify`).
 
 use feedline::report::{MonitorFlags, MonitorRecord, Record};
+use feedline_host_tests::qemu::{self, Machine};
 use feedline_host_tests::reference::monitor::{figures, simulate, Event, Report, Run, Scenario};
 use std::path::{Path, PathBuf};
-use std::process::{Command, Stdio};
+use std::process::Command;
 use std::sync::OnceLock;
-use std::time::{Duration, Instant};
+use std::time::Duration;
 
 /// Largest relative VSWR error allowed, chain against the f64 model: the fixed chain's
 /// stated bound.
@@ -74,52 +75,13 @@ fn firmware() -> &'static Path {
 
 /// Runs the firmware with `args`; returns (exit code, stdout).
 fn qemu(args: &[String]) -> (i32, String) {
-    let fw = firmware();
-    let mut semi = String::from("enable=on,target=native,arg=emu-monitor");
-    for a in args {
-        assert!(
-            !a.contains(','),
-            "argument {a:?} would break -semihosting-config"
-        );
-        semi.push_str(",arg=");
-        semi.push_str(a);
-    }
-    let child = Command::new("qemu-system-arm")
-        .args(["-cpu", "cortex-m0", "-machine", "microbit", "-nographic"])
-        .args(["-monitor", "none", "-semihosting-config", &semi, "-kernel"])
-        .arg(fw)
-        .stdin(Stdio::null())
-        .stdout(Stdio::piped())
-        .stderr(Stdio::piped())
-        .spawn();
-    let mut child = match child {
-        Ok(c) => c,
-        Err(e) if e.kind() == std::io::ErrorKind::NotFound => {
-            panic!("qemu-system-arm is not installed: run `cargo verify` (it installs QEMU), then retry")
-        }
-        Err(e) => panic!("cannot start qemu-system-arm: {e}"),
-    };
-    // Drain stdout on a thread so a full pipe cannot stall QEMU.
-    let mut stdout = child.stdout.take().expect("piped stdout");
-    let reader = std::thread::spawn(move || {
-        let mut s = String::new();
-        std::io::Read::read_to_string(&mut stdout, &mut s).ok();
-        s
-    });
-    let start = Instant::now();
-    let status = loop {
-        if let Some(st) = child.try_wait().expect("wait for qemu") {
-            break st;
-        }
-        if start.elapsed() > RUN_TIMEOUT {
-            let _ = child.kill();
-            let _ = child.wait();
-            panic!("qemu run timed out after {RUN_TIMEOUT:?} with args {args:?}");
-        }
-        std::thread::sleep(Duration::from_millis(10));
-    };
-    let out = reader.join().expect("stdout reader");
-    (status.code().unwrap_or(-1), out)
+    qemu::run(
+        Machine::Microbit,
+        firmware(),
+        "emu-monitor",
+        args,
+        RUN_TIMEOUT,
+    )
 }
 
 type Fields = Vec<(String, String)>;
