@@ -43,20 +43,27 @@ impl Bounds {
     }
 }
 
-/// The leakage amplitude e = 10^(−D/20) of a bridge with directivity `directivity`; a
-/// non-finite or negative directivity is treated as 0 dB (no directivity: e = 1).
-pub fn leakage(directivity: Db) -> f32 {
+/// The leakage amplitude e = 10^(−D/20) of a bridge with directivity `directivity`, as the
+/// |Γ| it adds to a reading at worst; a non-finite or negative directivity is treated as 0 dB
+/// (no directivity: e = 1).
+pub fn leakage(directivity: Db) -> Gamma {
     let d = directivity.value();
     if d.is_finite() && d > 0.0 {
-        libm::powf(10.0, -d / 20.0)
+        Gamma::saturating(libm::powf(10.0, -d / 20.0))
     } else {
-        1.0
+        Gamma::TOTAL
     }
 }
 
 /// First-order bounds of a reading `measured` from a bridge of directivity `directivity`.
 pub fn directivity_bounds(measured: Gamma, directivity: Db) -> Bounds {
-    let e = leakage(directivity);
+    bounds_for_leakage(measured, leakage(directivity))
+}
+
+/// First-order bounds of a reading `measured` from a bridge of known [`leakage`] (compute the
+/// leakage once per bridge; this saves its `powf` on every reading).
+pub fn bounds_for_leakage(measured: Gamma, leakage: Gamma) -> Bounds {
+    let e = leakage.value();
     let low = Gamma::saturating(measured.value() - e);
     let high = Gamma::saturating(measured.value() + e);
     Bounds {

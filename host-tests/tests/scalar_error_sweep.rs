@@ -100,7 +100,7 @@ fn codes_to_return_loss_every_law() {
     ];
     for (name, det, law) in laws {
         let spec = BridgeSpec::new(det, Volts::new(lsb * 0.5), Volts::new(2.49), Db::new(40.0));
-        let chain = ScalarChain::new(adc, spec);
+        let chain = ScalarChain::new(adc, spec).unwrap();
         let mut w = Worst::new("codes → return loss (dB)");
         for f in (1000u16..65000).step_by(997) {
             for r in (1..=f).step_by(13) {

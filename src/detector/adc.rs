@@ -42,6 +42,11 @@ impl Adc {
         1u32.wrapping_shl(u32::from(self.bits)).wrapping_sub(1)
     }
 
+    /// The zero offset in codes (the code read with no input).
+    pub fn offset(&self) -> i32 {
+        self.offset
+    }
+
     /// Volts per code (one LSB).
     pub fn lsb(&self) -> Volts {
         Volts::new(self.volts_per_code)

@@ -46,7 +46,7 @@ impl Ctx {
         let [e00, e11, t] = OSL_TERMS;
         let terms = OnePortTerms::new(c(e00), c(e11), c(t)).ok()?;
         Some(Ctx {
-            chain: ScalarChain::new(adc, spec),
+            chain: ScalarChain::new(adc, spec).ok()?,
             fixed,
             terms,
         })

@@ -23,7 +23,7 @@ fn build_chain(s: &Scenario) -> Option<ScalarChain> {
     };
     let floor = Volts::new(s.floor_lsb * adc.lsb().value());
     let spec = BridgeSpec::new(detector, floor, Volts::new(s.vref), Db::new(s.directivity));
-    Some(ScalarChain::new(adc, spec))
+    ScalarChain::new(adc, spec).ok()
 }
 
 /// One reading: `N` pairs from the front end, each channel averaged by the core's averager.
@@ -65,7 +65,7 @@ fn measure(
 /// Section: the load as the scenario has it.
 fn section_reading(w: &mut Console, s: &Scenario, chain: &ScalarChain) {
     let (codes, result) = measure(s, chain, s.load, 0);
-    let _ = report::reading(w, "reading", &chain.adc, codes, s.avg, &result);
+    let _ = report::reading(w, "reading", chain.adc(), codes, s.avg, &result);
 }
 
 /// Section: the same cable with its far end open, then shorted → matched loss.

@@ -85,8 +85,8 @@ pub fn print(
     };
     let (Some(mid), Some(lo), Some(hi)) = (
         report_for(&model, s, m.reflection.vswr),
-        report_for(&model, s, m.bounds.vswr_low),
-        report_for(&model, s, m.bounds.vswr_high),
+        report_for(&model, s, m.bounds().vswr_low),
+        report_for(&model, s, m.bounds().vswr_high),
     ) else {
         return writeln!(
             w,

@@ -216,7 +216,7 @@ pub fn raw(w: &mut impl Write, adc: &Adc, raw: RawPair, avg: u16) -> Result {
 /// |Γ|, VSWR, return loss, mismatch loss with their ranges.
 pub fn reflection(w: &mut impl Write, m: &Measurement) -> Result {
     let r = &m.reflection;
-    let b = &m.bounds;
+    let b = m.bounds();
     writeln!(
         w,
         "  {:<16}{:.6}     range {:.6} .. {:.6}",

@@ -539,9 +539,18 @@ mod proof {
                 Volts::new(input(0.2)),
             ));
             if let Ok(adc) = Adc::new(input(16), Volts::new(input(3.3)), input(0)) {
-                let chain = input(ScalarChain::new(adc, spec));
-                keep(chain.measure_codes(input(50_000), input(5_000)));
-                keep(chain.read(&mut OpaqueAdc));
+                if let Ok(chain) = ScalarChain::new(adc, spec) {
+                    let chain = input(chain);
+                    let m = chain.measure_codes(input(50_000), input(5_000));
+                    if let Ok(m) = m {
+                        keep(m.bounds());
+                        keep(m.leakage());
+                    }
+                    keep(m);
+                    keep(chain.read(&mut OpaqueAdc));
+                    keep(chain.adc());
+                    keep(chain.spec());
+                }
             }
         }
         keep(bridge::measure_levels(
