@@ -24,7 +24,7 @@
 //!
 //! Panic policy: nothing in this module panics.
 
-use crate::float::log2::log2;
+use crate::float::log2::{log2, log2_of_ratio};
 use crate::units::{Db, PowerRatio};
 
 /// The largest return loss or mismatch loss reported, in dB. A perfect match reads as this.
@@ -38,6 +38,8 @@ pub(crate) const GAMMA_AT_CEILING: f32 = 1.0e-5;
 const DB20_PER_LOG2: f32 = 6.020_6;
 /// 10·log10(2): mismatch loss in dB per unit of log2.
 const DB10_PER_LOG2: f32 = 3.010_3;
+/// 1 − √½: up to this |Γ|², the mismatch loss takes the short path (see `mismatch_loss`).
+const SMALL_REFLECTED_FRACTION: f32 = 0.292_893_2;
 
 /// Why a value is not a valid reflection quantity.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -187,17 +189,23 @@ impl Gamma {
     /// The mismatch loss, and whether it was capped.
     #[inline]
     fn mismatch_loss_and_cap(self) -> (Db, bool) {
-        // (1 − |Γ|)(1 + |Γ|) rather than 1 − |Γ|²: no cancellation as |Γ| → 1. Below 1 it is
-        // at least 1.2e-7 (|Γ| < 1 is at most 1 − 2^-24), so the loss stays under 70 dB and
-        // only a total reflection reaches the ceiling.
-        let delivered = (1.0 - self.0) * (1.0 + self.0);
+        let g = self.0;
+        // Up to |Γ|² = 1 − √½ (|Γ| 0.541, VSWR 3.36): 1 − |Γ|² = (1 − t)/(1 + t) with
+        // t = |Γ|²/(2 − |Γ|²) ≤ 0.1716, formed without a cancellation, so the loss is
+        // 10·log10(2)·log2((1 + t)/(1 − t)) to full relative precision even for a tiny |Γ|.
+        let x = g * g;
+        if x <= SMALL_REFLECTED_FRACTION {
+            let ml = DB10_PER_LOG2 * log2_of_ratio(x / (2.0 - x));
+            return (Db::new(ml), false);
+        }
+        // Above, (1 − |Γ|)(1 + |Γ|) rather than 1 − |Γ|²: no cancellation as |Γ| → 1. Below
+        // |Γ| = 1 it is at least 1.2e-7 (|Γ| < 1 is at most 1 − 2^-24), so the loss stays
+        // under 70 dB and only a total reflection reaches the ceiling.
+        let delivered = (1.0 - g) * (1.0 + g);
         if delivered <= 1.0e-10 {
             return (Db::new(DB_CEILING), true);
         }
-        // Rounding can put `delivered` a unit above 1 for a tiny |Γ| (a loss of −5e-7 dB);
-        // the magnitude keeps the loss ≥ 0 at that error.
-        let ml = DB10_PER_LOG2 * log2(delivered);
-        (Db::new(ml.abs()), false)
+        (Db::new(-DB10_PER_LOG2 * log2(delivered)), false)
     }
 
     /// Fraction of the incident power reflected, |Γ|².

@@ -2,18 +2,20 @@
 //!
 //! Method: split x = 2^k · m with m in [√½, √2) from the exponent and mantissa bits (the
 //! range reduction of the Cephes and musl `logf`: add the bit pattern of 1 − √½ so that the
-//! exponent field rounds at √2 instead of 2), then
-//! ln m = 2·atanh(t) = 2·(t + t³/3 + t⁵/5 + t⁷/7 + …) with t = (m − 1)/(m + 1)
-//! (Abramowitz & Stegun, *Handbook of Mathematical Functions*, 4.1.27), so
-//! log2 x = k + t·(c1 + c3·t² + c5·t⁴ + c7·t⁶) with c_n = 2/(n·ln 2).
+//! exponent field rounds at √2 instead of 2), then use
+//! ln m = 2·atanh(t) = 2·(t + t³/3 + t⁵/5 + …) with t = (m − 1)/(m + 1)
+//! (Abramowitz & Stegun, *Handbook of Mathematical Functions*, 4.1.27):
+//! log2 x = k + t·(c1 + c3·t² + c5·t⁴), where c1, c3, c5 are the near-minimax fit of
+//! 2·atanh(t)/(t·ln 2) over t² in [0, 0.0294] (Chebyshev interpolation with Python mpmath's
+//! `chebyfit`: host-tests/scripts/log2_coefficients.py).
 //!
-//! Error: |t| ≤ (√2 − 1)/(√2 + 1) = 0.1716, so the first omitted term, 2·t⁹/(9·ln 2) (the
-//! tail is smaller than 1.03 times it), is below 4.2e-8; f32 rounding of the six operations
-//! adds a few units of 2^-24 of the result's magnitude. [`LOG2_MAX_ERROR`] is the bound the
-//! tests hold, absolute for |log2 x| ≤ 1 and relative above. It is exact at powers of two
-//! (t = 0) and its sign is right: ≤ 0 for x ≤ 1, ≥ 0 for x ≥ 1.
+//! Error: |t| ≤ (√2 − 1)/(√2 + 1) = 0.1716, and the fit is within 3.5e-7 of the series sum,
+//! so the method error is below 6.0e-8; f32 rounding of the eight operations adds a few
+//! units of 2^-24 of the result's magnitude. [`LOG2_MAX_ERROR`] is the bound the tests hold,
+//! absolute for |log2 x| ≤ 1 and relative above. It is exact at powers of two (t = 0) and its
+//! sign is right: ≤ 0 for x ≤ 1, ≥ 0 for x ≥ 1.
 //!
-//! Cost: one division and eight other f32 operations, no branch; about 25 instructions on
+//! Cost: one division and seven other f32 operations, no branch; about 22 instructions on
 //! a Cortex-M4F against about 70 for libm's `log10f`.
 //!
 //! Domain: positive normal x. Any other bit pattern (0, a subnormal, a negative, NaN or
@@ -22,8 +24,8 @@
 //! Panic policy: nothing here panics.
 
 /// Largest error of [`log2`] against the exact log2: absolute for |log2 x| ≤ 1, relative
-/// (to |log2 x|) above; the truncation bound 4.2e-8 plus rounding. The sweep below measures
-/// 1.5e-7.
+/// (to |log2 x|) above; the method error 6.0e-8 plus rounding. The sweep below measures
+/// 1.8e-7.
 #[cfg_attr(not(test), allow(dead_code))] // held by the tests below
 pub(crate) const LOG2_MAX_ERROR: f32 = 2.0e-7;
 
@@ -35,11 +37,11 @@ const EXPONENT_MASK: u32 = 0xff80_0000;
 /// Bit pattern of 1.0.
 const ONE_BITS: u32 = 0x3f80_0000;
 
-/// 2/(n·ln 2) for n = 1, 3, 5, 7.
-const C1: f32 = 2.885_39;
-const C3: f32 = 0.961_796_7;
-const C5: f32 = 0.577_078_04;
-const C7: f32 = 0.412_198_6;
+/// The fit's coefficients (printed by host-tests/scripts/log2_coefficients.py); the series
+/// values 2/(n·ln 2) would be 2.885390, 0.961797, 0.577078.
+const C1: f32 = 2.885_390_4;
+const C3: f32 = 0.961_588_95;
+const C5: f32 = 0.595_759_6;
 
 /// log2 x for positive normal x (see the module doc for the domain and the error).
 #[inline]
@@ -50,10 +52,16 @@ pub(crate) fn log2(x: f32) -> f32 {
     // (e >> 23) is at most 511: the subtraction cannot overflow.
     let k = (e >> 23) as i32 - 127;
     let m = f32::from_bits(bits.wrapping_sub(e).wrapping_add(ONE_BITS));
-    let t = (m - 1.0) / (m + 1.0);
+    k as f32 + log2_of_ratio((m - 1.0) / (m + 1.0))
+}
+
+/// log2((1 + t)/(1 − t)) for |t| ≤ 0.1716, the same polynomial: for callers that can form t
+/// without a cancellation (mismatch loss: 1 − x = (1 − t)/(1 + t) with t = x/(2 − x)).
+/// Same error bound as [`log2`]; outside that range the error grows (it stays finite).
+#[inline]
+pub(crate) fn log2_of_ratio(t: f32) -> f32 {
     let t2 = t * t;
-    let p = ((C7 * t2 + C5) * t2 + C3) * t2 + C1;
-    k as f32 + t * p
+    t * ((C5 * t2 + C3) * t2 + C1)
 }
 
 #[cfg(test)]
@@ -118,6 +126,20 @@ mod tests {
             );
         }
         assert!(worst <= f64::from(LOG2_MAX_ERROR), "worst {worst}");
+    }
+
+    /// log2((1 + t)/(1 − t)) over its whole range against f64 libm.
+    #[test]
+    fn ratio_form_against_f64() {
+        for i in -1000..=1000 {
+            let t = 0.1716 * i as f32 / 1000.0;
+            let want = libm::log2((1.0 + f64::from(t)) / (1.0 - f64::from(t)));
+            let got = log2_of_ratio(t);
+            assert!(
+                error(got, want) <= f64::from(LOG2_MAX_ERROR),
+                "{t}: {got} {want}"
+            );
+        }
     }
 
     #[test]

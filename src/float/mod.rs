@@ -7,7 +7,7 @@
 //!
 //! | function | method | error |
 //! |---|---|---|
-//! | [`log2`](log2::log2) | exponent bits + the atanh series to t⁷ on [√½, √2) | ≤ [`LOG2_MAX_ERROR`](log2::LOG2_MAX_ERROR) absolute |
+//! | [`log2`](log2::log2) | exponent bits + a fitted atanh series to t⁵ on [√½, √2) | ≤ [`LOG2_MAX_ERROR`](log2::LOG2_MAX_ERROR) absolute |
 //!
 //! Panic policy: nothing here panics; every input gives a finite output.
 
