@@ -34,23 +34,36 @@ pub const OSL_TERMS: [(f32, f32); 3] = [(0.04, 0.03), (0.1, -0.05), (0.9, 0.1)];
 impl Ctx {
     /// The benchmark configuration.
     pub fn new() -> Option<Ctx> {
-        let adc = Adc::new(black_box(16), Volts::new(black_box(3.3)), black_box(0)).ok()?;
-        let spec = BridgeSpec::new(
-            Detector::Linear,
-            Volts::new(black_box(0.001)),
-            Volts::new(black_box(3.2)),
-            Db::new(black_box(40.0)),
-        );
-        let fixed = LinearChain::new(CodeLimits::new(black_box(20), black_box(65_535))).ok()?;
-        let c = |(re, im): (f32, f32)| Complex32::new(black_box(re), black_box(im));
-        let [e00, e11, t] = OSL_TERMS;
-        let terms = OnePortTerms::new(c(e00), c(e11), c(t)).ok()?;
         Some(Ctx {
-            chain: ScalarChain::new(adc, spec).ok()?,
-            fixed,
-            terms,
+            chain: scalar_chain()?,
+            fixed: fixed_chain()?,
+            terms: osl_terms()?,
         })
     }
+}
+
+/// The f32 chain of [`Ctx::chain`], alone (the footprint firmware builds only what it uses).
+pub fn scalar_chain() -> Option<ScalarChain> {
+    let adc = Adc::new(black_box(16), Volts::new(black_box(3.3)), black_box(0)).ok()?;
+    let spec = BridgeSpec::new(
+        Detector::Linear,
+        Volts::new(black_box(0.001)),
+        Volts::new(black_box(3.2)),
+        Db::new(black_box(40.0)),
+    );
+    ScalarChain::new(adc, spec).ok()
+}
+
+/// The integer chain of [`Ctx::fixed`], alone.
+pub fn fixed_chain() -> Option<LinearChain> {
+    LinearChain::new(CodeLimits::new(black_box(20), black_box(65_535))).ok()
+}
+
+/// The error terms of [`Ctx::terms`], alone.
+pub fn osl_terms() -> Option<OnePortTerms> {
+    let c = |(re, im): (f32, f32)| Complex32::new(black_box(re), black_box(im));
+    let [e00, e11, t] = OSL_TERMS;
+    OnePortTerms::new(c(e00), c(e11), c(t)).ok()
 }
 
 /// One measured operation.
@@ -316,7 +329,13 @@ const REFUSED: u32 = 0x7FC0_0000;
 /// and the quality flags (low byte) or the fault (`0x100 + discriminant`).
 #[inline(never)]
 pub fn chain_f32(ctx: &Ctx, x: [u32; 4]) -> [u32; 4] {
-    match ctx.chain.measure_codes(x[0] as u16, x[1] as u16) {
+    measure_f32(&ctx.chain, x)
+}
+
+/// The body of [`chain_f32`] for any chain.
+#[inline(always)]
+pub fn measure_f32(chain: &ScalarChain, x: [u32; 4]) -> [u32; 4] {
+    match chain.measure_codes(x[0] as u16, x[1] as u16) {
         Ok(m) => [
             m.reflection.vswr.value().to_bits(),
             m.reflection.return_loss.value().to_bits(),
@@ -358,7 +377,13 @@ pub fn core_directivity_bounds<C>(_ctx: &C, x: [u32; 4]) -> [u32; 4] {
 /// RL (Q16.16 dB), ML (Q16.16 dB) bits and the quality flags, or the fault (`0x100 + n`).
 #[inline(never)]
 pub fn chain_fixed(ctx: &Ctx, x: [u32; 4]) -> [u32; 4] {
-    match ctx.fixed.measure(x[0] as u16, x[1] as u16) {
+    measure_fixed(&ctx.fixed, x)
+}
+
+/// The body of [`chain_fixed`] for any chain.
+#[inline(always)]
+pub fn measure_fixed(chain: &LinearChain, x: [u32; 4]) -> [u32; 4] {
+    match chain.measure(x[0] as u16, x[1] as u16) {
         Ok(m) => [
             m.reflection.vswr.to_bits(),
             m.reflection.return_loss.to_bits() as u32,
@@ -437,8 +462,14 @@ fn complex_sweep(k: u32) -> Option<[u32; 4]> {
 /// Out: corrected Γ (re, im).
 #[inline(never)]
 pub fn osl_correct(ctx: &Ctx, x: [u32; 4]) -> [u32; 4] {
+    correct_osl(&ctx.terms, x)
+}
+
+/// The body of [`osl_correct`] for any terms.
+#[inline(always)]
+pub fn correct_osl(terms: &OnePortTerms, x: [u32; 4]) -> [u32; 4] {
     let m = Complex32::new(f32::from_bits(x[0]), f32::from_bits(x[1]));
-    match ctx.terms.correct(m) {
+    match terms.correct(m) {
         Ok(g) => [g.re.to_bits(), g.im.to_bits(), 0, 0],
         Err(_) => [REFUSED, REFUSED, 0, 1],
     }

@@ -319,11 +319,23 @@ const SIZE_BINS: &[(&str, &str)] = &[
     ("size-naive-micromath", "naive f32 + micromath chain"),
     (
         "size-core-chain-f32",
-        "core f32 scalar chain (codes → measurement with bounds and verdict)",
+        "core f32 scalar chain (ScalarChain: codes → measurement with verdict)",
+    ),
+    (
+        "size-core-chain-fixed",
+        "core integer chain (LinearChain: codes → measurement with verdict)",
     ),
     (
         "size-core-reflection",
         "core f32 reflection relations (Gamma → Reflection)",
+    ),
+    (
+        "size-core-osl",
+        "core OSL correction (OnePortTerms::new and correct)",
+    ),
+    (
+        "size-core-dtf",
+        "core distance to fault (256 points → 1024 bins, Hann, loss model; 8 KiB buffer)",
     ),
 ];
 
@@ -1388,6 +1400,31 @@ fn main() -> ExitCode {
                 sizes,
             });
         }
+        // The core's one cargo feature, `defmt`, on the firmware that links every public entry
+        // point (its own target directory: the same executable names as the default build).
+        eprintln!("bench-fw: building boards/panic-proof with feedline's defmt feature");
+        let defmt_dir = root().join("target").join("bench-fw-defmt");
+        let mut sizes: Sizes = [Err("—".to_string()), Err("—".to_string())];
+        for (ci, core) in Core::ALL.into_iter().enumerate() {
+            sizes[ci] = match build_with(
+                "panic-proof",
+                core,
+                &defmt_dir,
+                &["--features", "feedline/defmt"],
+            ) {
+                Err(e) => Err(first_error_line(&e)),
+                Ok(exes) => match exes.first() {
+                    None => Err("no firmware".to_string()),
+                    Some(p) => Elf::read(p).map(|e| (e.flash(), e.ram())),
+                },
+            };
+        }
+        footprints.push(Footprint {
+            label: "board firmware boards/panic-proof (every public entry point of the core) \
+                    with feedline's `defmt` feature"
+                .to_string(),
+            sizes,
+        });
     }
 
     let (table, missed) = report(&results, &footprints, true);

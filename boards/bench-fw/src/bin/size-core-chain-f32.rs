@@ -1,5 +1,5 @@
 //! Footprint firmware: the bare board plus the core's f32 scalar chain (ADC codes → measurement
-//! with bounds and quality verdict, src/bridge.rs) and its configuration.
+//! with quality verdict, src/bridge.rs) and its configuration.
 #![cfg_attr(target_os = "none", no_std, no_main)]
 
 #[cfg(target_os = "none")]
@@ -8,9 +8,9 @@
 mod ops;
 
 bench_fw::size_firmware!(
-    match ops::Ctx::new() {
-        Some(ctx) => ctx,
+    match ops::scalar_chain() {
+        Some(chain) => chain,
         None => bench_fw::exit(false),
     },
-    ops::chain_f32
+    ops::measure_f32
 );
