@@ -458,10 +458,11 @@ impl ScalarChain {
         let saturated_from =
             (i64::from(first_saturated) + i64::from(offset)).clamp(0, i64::from(full_scale)) as i32;
         // A raw code below the offset reads net 0: at or below the floor when 0 is.
+        // first_above_floor ≤ 2^25 and |offset| ≤ 2^24: no overflow.
         let floor_up_to = if first_above_floor == 0 {
             i32::MIN
         } else {
-            first_above_floor - 1 + offset
+            first_above_floor.wrapping_sub(1).wrapping_add(offset)
         };
         let (law, limit) = match spec.detector {
             Detector::Linear => (Law::Amplitude, margin_ratio(margin, 20.0)),
@@ -513,11 +514,11 @@ impl ScalarChain {
         }
         // |offset| ≤ 2^24 and codes ≤ 2^16: no overflow. Forward is above the floor, so its
         // net code is positive; a reflected code above the floor is too.
-        let fv = (f - self.offset) as f32;
+        let fv = f.wrapping_sub(self.offset) as f32;
         let (rv, quality) = if r <= self.floor_up_to {
             (self.floor_codes, Quality::REFLECTED_AT_FLOOR)
         } else {
-            let net = r - self.offset;
+            let net = r.wrapping_sub(self.offset);
             ((if net > 0 { net } else { 0 }) as f32, Quality::GOOD)
         };
         match self.law {
@@ -543,9 +544,9 @@ fn first_code(pred: impl Fn(i32) -> bool) -> i32 {
     if pred(lo) {
         return 0;
     }
-    // pred(lo) is false; pred(hi) is taken as true.
-    while hi - lo > 1 {
-        let mid = lo + (hi - lo) / 2;
+    // pred(lo) is false; pred(hi) is taken as true. 0 ≤ lo < hi ≤ 2^25: no overflow.
+    while hi.wrapping_sub(lo) > 1 {
+        let mid = lo.wrapping_add(hi.wrapping_sub(lo) >> 1);
         if pred(mid) {
             hi = mid;
         } else {

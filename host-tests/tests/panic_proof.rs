@@ -65,14 +65,10 @@ fn no_panic_path_reachable_in_release() {
     check(false);
 }
 
-/// Stricter than the shipped profile. Ignored for now: with overflow checks on, multiply-overflow
-/// paths are still reachable, in arithmetic whose bounds are argued in comments but not visible
-/// to the compiler: fixed::chain (LinearChain::measure, SquareLawChain::measure, db_core) and
-/// dtf::transform::finish. In release they cannot panic (they wrap). Run with `--ignored` to
-/// see them; remove the `ignore` once they use explicit wrapping_/saturating_/checked_
-/// arithmetic.
+/// Stricter than the shipped profile: with overflow checks on for feedline, any arithmetic
+/// that could overflow is a panic path too, so every such operation in the core must be an
+/// explicit wrapping_/saturating_/checked_ one whose range is argued beside it.
 #[test]
-#[ignore = "multiply-overflow paths remain in fixed::chain and dtf; see the doc comment"]
 fn no_overflow_panic_path_reachable_with_overflow_checks() {
     check(true);
 }

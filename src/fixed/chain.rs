@@ -230,8 +230,8 @@ impl CodeVerdict {
         }
         let (f32_, r32) = (u32::from(f), u32::from(r));
         if r32 > f32_ {
-            // f < 2^16 and margin < 2^16: the product is < 2^32.
-            let allowed = f32_ + ((f32_ * self.margin_q16) >> 16);
+            // f < 2^16 and margin < 2^16: the product is < 2^32 and the sum < 2^17.
+            let allowed = f32_.wrapping_add(f32_.wrapping_mul(self.margin_q16) >> 16);
             return if r32 <= allowed {
                 Ok(Verdict::Total(FixedQuality::CLAMPED_TOTAL))
             } else {
@@ -380,8 +380,10 @@ fn linear_core(f: u32, r: u32) -> FixedReflection {
     let gamma = GammaQ31::from_bits_within_one(exp2_neg_q31_below_32(d));
     // f² − r² = (f − r)(f + r) = (1 − |Γ|²) · f² is exact in u32 (f² < 2^32) and falls as r
     // rises, so mismatch loss and VSWR come out monotonic in r.
-    let lp = log2_nonzero_q24(f + r);
-    let ld = log2_nonzero_q24((f - r) * (f + r));
+    // f, r < 2^16 and r < f: the sum is < 2^17 and the product < f² < 2^32, so the wrapping
+    // operations never wrap.
+    let lp = log2_nonzero_q24(f.wrapping_add(r));
+    let ld = log2_nonzero_q24(f.wrapping_sub(r).wrapping_mul(f.wrapping_add(r)));
     // log2 VSWR = log2((f + r)² / (f² − r²)).
     let (vswr, capped) = vswr_from_log2(lp.wrapping_add(lp).wrapping_sub(ld));
     // −log2(1 − |Γ|²) = log2 f² − log2(f² − r²) ≤ log2(f²/(2f − 1)) < 16: ML < 48 dB, below
@@ -435,7 +437,7 @@ fn square_core(f: u32, r: u32) -> FixedReflection {
     // |Γ| = 2^(−d/2) ≤ 1 (d/2 < 9 · 2^24), so 2^31 + g < 2^32.
     let gamma = GammaQ31::from_bits_within_one(exp2_neg_q31_below_32(d >> 1));
     // −log2(1 − |Γ|²) = log2 f − log2(f − r) ∈ [0, 16]: ML ≤ 48.2 dB, below the cap.
-    let lm = log2_nonzero_u16_q24((f - r) as u16);
+    let lm = log2_nonzero_u16_q24(f.wrapping_sub(r) as u16); // 0 < f − r < 2^16
     let ml = lf.wrapping_sub(lm).max(0) as u32;
     let mismatch_loss = DbQ16::from_bits(mul_u16_shr(ml, K_DB_Q16, 22) as i32);
     let l1p =
@@ -465,7 +467,8 @@ const DB_CEILING_Q24: u32 = (DB_CEILING_Q16 as u32) << 8;
 /// From a dB difference d = forward − reflected (Q8.24, 0 < d ≤ 100 dB).
 #[inline]
 fn db_core(d: u32, capped: bool) -> FixedReflection {
-    let return_loss = DbQ16::from_bits(((d + 128) >> 8) as i32);
+    // d ≤ 100 dB in Q8.24 (< 2^31): the rounding add cannot wrap.
+    let return_loss = DbQ16::from_bits((d.wrapping_add(128) >> 8) as i32);
     let a = mul_hi_fast(d, K_DB_TO_LOG2); // −log2|Γ|, ≤ 16.6 · 2^24
     let g = exp2_neg_q31(a); // < 2^31 because a > 0
     let gamma = GammaQ31::from_bits(g);
@@ -477,8 +480,8 @@ fn db_core(d: u32, capped: bool) -> FixedReflection {
             .wrapping_sub(24 * ONE_Q24)
             .wrapping_add(LOG2_LN10_OVER_20_Q24);
         let y16 = y >> 8; // Q16, < 2^14
-        let y2 = (y16 * y16) >> 8; // y² in Q8.24, < 2^20
-        let y2_over_24 = (y2 * 2_731) >> 16; // 2731 = 2^16/24 rounded; product < 2^32
+        let y2 = y16.wrapping_mul(y16) >> 8; // y² in Q8.24, < 2^20
+        let y2_over_24 = y2.wrapping_mul(2_731) >> 16; // 2731 = 2^16/24 rounded; product < 2^32
         let t = (y >> 1).saturating_sub(y2_over_24); // y/2 − y²/24 ≥ 0
         log2_y.wrapping_sub(mul_shr(t, INV_LN2_Q30, 30) as i32)
     } else {

@@ -380,8 +380,67 @@ mod proof {
                 for x in plan.iter() {
                     keep(x);
                 }
+                prove_run_sweep(&plan);
             }
         }
+    }
+
+    /// The generic runner over stub hardware whose behaviour the optimizer cannot see.
+    fn prove_run_sweep(plan: &feedline::sweep::SweepPlan<64>) {
+        use feedline::sweep::{run_sweep, Flow, FrequencySource, PointReader, SweepPoint};
+        struct Source;
+        impl FrequencySource for Source {
+            type Error = u8;
+            fn set_frequency(&mut self, frequency: Hertz) -> Result<(), u8> {
+                if input(frequency.value()) > 1.0e9 {
+                    Err(1)
+                } else {
+                    Ok(())
+                }
+            }
+            fn settling_time_us(&self, from: Option<Hertz>, _to: Hertz) -> u32 {
+                input(if from.is_some() { 10 } else { 100 })
+            }
+        }
+        struct Reader;
+        impl PointReader for Reader {
+            type Reading = f32;
+            type Error = u8;
+            fn read_point(&mut self, frequency: Hertz) -> Result<f32, u8> {
+                let x = input(frequency.value() * 1.0e-9);
+                if x < 0.0 {
+                    Err(2)
+                } else {
+                    Ok(x)
+                }
+            }
+        }
+        struct Delay;
+        impl embedded_hal::delay::DelayNs for Delay {
+            fn delay_ns(&mut self, ns: u32) {
+                keep(ns);
+            }
+        }
+        let mut sink = |p: &SweepPoint<f32>| {
+            keep(p.reading);
+            if input(p.index) > 60 {
+                Flow::Stop
+            } else {
+                Flow::Continue
+            }
+        };
+        let mut progress = |done: usize, total: usize| {
+            keep((done, total));
+            input(Flow::Continue)
+        };
+        keep(run_sweep(
+            plan,
+            &mut Source,
+            &mut Reader,
+            &mut Delay,
+            &mut sink,
+            &mut progress,
+        ));
     }
 
     /// Keeps a result alive: the optimizer must assume it is read.
