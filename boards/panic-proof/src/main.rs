@@ -505,6 +505,10 @@ mod proof {
     fn prove_uncertainty() {
         let g = Gamma::saturating(input(0.1));
         keep(uncertainty::leakage(Db::new(input(30.0))));
+        keep(uncertainty::bounds_for_leakage(
+            Gamma::saturating(input(0.2)),
+            uncertainty::leakage(Db::new(input(25.0))),
+        ));
         let b = uncertainty::directivity_bounds(g, Db::new(input(30.0)));
         keep(b.reaches_perfect_match());
         keep(b);
@@ -528,6 +532,7 @@ mod proof {
         if let Ok(adc) = adc {
             keep(adc.full_scale());
             keep(adc.lsb());
+            keep(adc.offset());
             keep(adc.net_code(input(2000)));
             keep(adc.volts(input(2000)));
         }
