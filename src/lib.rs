@@ -12,8 +12,9 @@
 //!  (ADC codes)  (linearize)  (|Γ| + verdict)  (VSWR, RL, ML, bounds)   (matched loss)
 //! ```
 //!
-//! Two numeric paths compute the per-reading chain: `f32` (libm) in [`bridge`] and friends,
-//! and integer fixed point in [`fixed`] for parts with no FPU. Each states its error bound
+//! Two numeric paths compute the per-reading chain: `f32` in [`bridge`] and friends (libm,
+//! and a short `log2` for return and mismatch loss), and integer fixed point in [`fixed`] for
+//! parts with no FPU. Each states its error bound
 //! against an f64 reference; the host tests hold it there.
 //!
 //! Panic policy: no public function panics, and none returns NaN or infinity. Bad readings
