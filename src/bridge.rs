@@ -239,16 +239,7 @@ pub fn measure_volts(
     if !matches!(spec.detector, Detector::Log(_)) && (f < 0.0 || r < 0.0) {
         return Err(Fault::Negative);
     }
-    if f <= floor {
-        return Err(Fault::ForwardBelowFloor);
-    }
-    let at_floor = r <= floor;
-    let r_used = if at_floor { floor } else { r };
-    let quality = if at_floor {
-        Quality::REFLECTED_AT_FLOOR
-    } else {
-        Quality::GOOD
-    };
+    let (r_used, quality) = against_floor(f, r, floor)?;
     match spec.detector {
         Detector::Linear => {
             from_ratio(r_used / f, margin_ratio(margin, 20.0), false, quality, leak)
@@ -274,17 +265,20 @@ pub fn measure_levels(
     let r = finite(reflected.value())?;
     let fl = finite(floor.value())?;
     finite(directivity.value())?;
-    if f <= fl {
-        return Err(Fault::ForwardBelowFloor);
-    }
-    let at_floor = r <= fl;
-    let r_used = if at_floor { fl } else { r };
-    let quality = if at_floor {
-        Quality::REFLECTED_AT_FLOOR
-    } else {
-        Quality::GOOD
-    };
+    let (r_used, quality) = against_floor(f, r, fl)?;
     from_return_loss(f - r_used, 0.5, quality, leakage(directivity))
+}
+
+/// The floor rules: forward at or below it is refused; reflected at or below it is replaced by
+/// it and flagged.
+fn against_floor(f: f32, r: f32, floor: f32) -> Result<(f32, Quality), Fault> {
+    if f <= floor {
+        Err(Fault::ForwardBelowFloor)
+    } else if r <= floor {
+        Ok((floor, Quality::REFLECTED_AT_FLOOR))
+    } else {
+        Ok((r, Quality::GOOD))
+    }
 }
 
 /// The tail of every law that reads amplitude or power: `ratio` is reflected over forward
