@@ -65,14 +65,10 @@ fn no_panic_path_reachable_in_release() {
     check(false);
 }
 
-/// Stricter than the shipped profile. Ignored for now: with overflow checks on, multiply-overflow
-/// paths are still reachable, in arithmetic whose bounds are argued in comments but not visible
-/// to the compiler: fixed::chain (LinearChain::measure, SquareLawChain::measure, db_core) and
-/// dtf::transform::finish. In release they cannot panic (they wrap). Run with `--ignored` to
-/// see them; remove the `ignore` once they use explicit wrapping_/saturating_/checked_
-/// arithmetic.
+/// Stricter than the shipped profile: with overflow checks on, arithmetic whose range is
+/// argued in a comment but not visible to the compiler must be written as an explicit
+/// wrapping_/saturating_/checked_ operation, or the link fails.
 #[test]
-#[ignore = "multiply-overflow paths remain in fixed::chain and dtf; see the doc comment"]
 fn no_overflow_panic_path_reachable_with_overflow_checks() {
     check(true);
 }

@@ -110,9 +110,11 @@ fn finish<'a>(
     }
     let resolution = c.v / (2.0 * c.span);
     let bin_m = c.v / (2.0 * c.df * c.m as f32);
+    // `check` refused points < 2 (the compiler does not see that here): no wrap.
+    let intervals = points.wrapping_sub(1) as f32;
     let max_range = match kind {
-        ResponseKind::Complex => (points - 1) as f32 * resolution,
-        ResponseKind::ScalarPairs => 0.5 * (points - 1) as f32 * resolution,
+        ResponseKind::Complex => intervals * resolution,
+        ResponseKind::ScalarPairs => 0.5 * intervals * resolution,
     };
     // Two-way amplitude loss 2·α·d dB → Np: × ln10/20. The exact height of a reflection at d
     // is Σw·e^(−a·α_k·d)/Σw; its cumulant expansion to second order is

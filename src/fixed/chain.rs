@@ -190,7 +190,7 @@ enum Verdict {
 struct CodeVerdict {
     full_scale: u16,
     floor: u16,
-    /// r may reach f + f · margin_q16 / 2^16 and count as a total reflection.
+    /// r may reach f + f · margin_q16 / 2^16 and count as a total reflection; < 2^16.
     margin_q16: u32,
 }
 
@@ -230,8 +230,9 @@ impl CodeVerdict {
         }
         let (f32_, r32) = (u32::from(f), u32::from(r));
         if r32 > f32_ {
-            // f < 2^16 and margin < 2^16: the product is < 2^32.
-            let allowed = f32_ + ((f32_ * self.margin_q16) >> 16);
+            // f < 2^16 and margin < 2^16 (`new` caps it; the compiler cannot see a field's
+            // bound): the product is < 2^32, so wrapping is exact, and the sum is < 2^17.
+            let allowed = f32_ + (f32_.wrapping_mul(self.margin_q16) >> 16);
             return if r32 <= allowed {
                 Ok(Verdict::Total(FixedQuality::CLAMPED_TOTAL))
             } else {
@@ -381,7 +382,9 @@ fn linear_core(f: u32, r: u32) -> FixedReflection {
     // f² − r² = (f − r)(f + r) = (1 − |Γ|²) · f² is exact in u32 (f² < 2^32) and falls as r
     // rises, so mismatch loss and VSWR come out monotonic in r.
     let lp = log2_nonzero_q24(f + r);
-    let ld = log2_nonzero_q24((f - r) * (f + r));
+    // 0 < r < f < 2^16 (the verdict's order, which the compiler does not carry here): f − r
+    // does not wrap and (f − r)(f + r) < f² < 2^32, so the wrapping operations are exact.
+    let ld = log2_nonzero_q24(f.wrapping_sub(r).wrapping_mul(f + r));
     // log2 VSWR = log2((f + r)² / (f² − r²)).
     let (vswr, capped) = vswr_from_log2(lp.wrapping_add(lp).wrapping_sub(ld));
     // −log2(1 − |Γ|²) = log2 f² − log2(f² − r²) ≤ log2(f²/(2f − 1)) < 16: ML < 48 dB, below
@@ -435,7 +438,8 @@ fn square_core(f: u32, r: u32) -> FixedReflection {
     // |Γ| = 2^(−d/2) ≤ 1 (d/2 < 9 · 2^24), so 2^31 + g < 2^32.
     let gamma = GammaQ31::from_bits_within_one(exp2_neg_q31_below_32(d >> 1));
     // −log2(1 − |Γ|²) = log2 f − log2(f − r) ∈ [0, 16]: ML ≤ 48.2 dB, below the cap.
-    let lm = log2_nonzero_u16_q24((f - r) as u16);
+    // r < f (the verdict's order): the difference does not wrap.
+    let lm = log2_nonzero_u16_q24(f.wrapping_sub(r) as u16);
     let ml = lf.wrapping_sub(lm).max(0) as u32;
     let mismatch_loss = DbQ16::from_bits(mul_u16_shr(ml, K_DB_Q16, 22) as i32);
     let l1p =
@@ -476,9 +480,11 @@ fn db_core(d: u32, capped: bool) -> FixedReflection {
         let log2_y = log2_q24(d)
             .wrapping_sub(24 * ONE_Q24)
             .wrapping_add(LOG2_LN10_OVER_20_Q24);
+        // y16 < 2^14 and y2 < 2^20 follow from d < SERIES_BELOW_DB_Q24, which the compiler
+        // does not carry through mul_hi_fast: both products are < 2^32, so wrapping is exact.
         let y16 = y >> 8; // Q16, < 2^14
-        let y2 = (y16 * y16) >> 8; // y² in Q8.24, < 2^20
-        let y2_over_24 = (y2 * 2_731) >> 16; // 2731 = 2^16/24 rounded; product < 2^32
+        let y2 = y16.wrapping_mul(y16) >> 8; // y² in Q8.24, < 2^20
+        let y2_over_24 = y2.wrapping_mul(2_731) >> 16; // 2731 = 2^16/24 rounded; product < 2^32
         let t = (y >> 1).saturating_sub(y2_over_24); // y/2 − y²/24 ≥ 0
         log2_y.wrapping_sub(mul_shr(t, INV_LN2_Q30, 30) as i32)
     } else {
