@@ -384,6 +384,118 @@ mod proof {
         }
     }
 
+    /// A synthesizer stub whose tuning may fail when the optimizer cannot tell.
+    struct ProofSource;
+    impl feedline::sweep::FrequencySource for ProofSource {
+        type Error = ();
+        fn set_frequency(&mut self, frequency: Hertz) -> Result<(), ()> {
+            keep(frequency);
+            if input(false) {
+                Err(())
+            } else {
+                Ok(())
+            }
+        }
+        fn settling_time_us(&self, from: Option<Hertz>, to: Hertz) -> u32 {
+            keep((from, to));
+            input(100)
+        }
+    }
+
+    /// A reader stub: Γ the optimizer cannot see, or a failure.
+    struct ProofReader;
+    impl feedline::sweep::PointReader for ProofReader {
+        type Reading = Complex32;
+        type Error = u8;
+        fn read_point(&mut self, frequency: Hertz) -> Result<Complex32, u8> {
+            keep(frequency);
+            if input(false) {
+                Err(input(1))
+            } else {
+                Ok(c(0.2, -0.1))
+            }
+        }
+    }
+
+    /// A delay that only keeps its argument alive.
+    struct ProofDelay;
+    impl embedded_hal::delay::DelayNs for ProofDelay {
+        fn delay_ns(&mut self, ns: u32) {
+            keep(ns);
+        }
+    }
+
+    /// A sink that stores the sweep in a fixed buffer and may stop it early.
+    struct ProofSink {
+        points: [Complex32; 64],
+        stored: usize,
+    }
+    impl feedline::sweep::PointSink<Complex32> for ProofSink {
+        fn accept(
+            &mut self,
+            point: &feedline::sweep::SweepPoint<Complex32>,
+        ) -> feedline::sweep::Flow {
+            if let Some(slot) = self.points.get_mut(point.index) {
+                *slot = point.reading;
+                self.stored = self.stored.saturating_add(1);
+            }
+            if input(false) {
+                feedline::sweep::Flow::Stop
+            } else {
+                feedline::sweep::Flow::Continue
+            }
+        }
+    }
+
+    fn prove_sweep_run() {
+        use feedline::sweep::{run_sweep, Flow, NoProgress, Spacing, SweepPlan, SweepPoint};
+        let Ok(plan) = SweepPlan::<64>::from_start_stop(
+            Hertz::new(input(1.0e6)),
+            Hertz::new(input(3.0e7)),
+            input(64),
+            input(Spacing::Linear),
+        ) else {
+            return;
+        };
+        let mut sink = ProofSink {
+            points: [Complex32::new(0.0, 0.0); 64],
+            stored: 0,
+        };
+        let mut cancel = |done: usize, total: usize| {
+            keep((done, total));
+            if input(false) {
+                Flow::Stop
+            } else {
+                Flow::Continue
+            }
+        };
+        keep(run_sweep(
+            &plan,
+            &mut ProofSource,
+            &mut ProofReader,
+            &mut ProofDelay,
+            &mut sink,
+            &mut cancel,
+        ));
+        keep(sink.stored);
+        keep(sink.points);
+        let mut last = input(0usize);
+        let mut closure_sink = |p: &SweepPoint<Complex32>| {
+            last = p.index;
+            keep(p.frequency);
+            Flow::Continue
+        };
+        keep(run_sweep(
+            &plan,
+            &mut ProofSource,
+            &mut ProofReader,
+            &mut ProofDelay,
+            &mut closure_sink,
+            &mut NoProgress,
+        ));
+        keep(last);
+    }
+
     /// Keeps a result alive: the optimizer must assume it is read.
     fn keep<T>(x: T) {
         core::hint::black_box(x);
@@ -993,6 +1105,7 @@ mod proof {
         prove_dtf();
         prove_analysis();
         prove_sweep_plan();
+        prove_sweep_run();
         #[cfg(feature = "text")]
         prove_text();
         prove_vector();
