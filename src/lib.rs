@@ -32,6 +32,7 @@ pub mod command;
 pub mod detector;
 pub mod dtf;
 pub mod fixed;
+pub mod fmt_decimal;
 pub mod line;
 pub mod monitor;
 pub mod plot;
