@@ -1,6 +1,7 @@
 //! Decimal text for `f32` with integer arithmetic only: a fixed number of fraction digits
 //! ([`write_fixed`], the bytes of `core::fmt`'s `{:>width$.decimals$}`) and the shortest
-//! decimal that reads back to the same `f32` ([`write_shortest`], the bytes of `{}`).
+//! decimal that reads back to the same `f32` ([`write_shortest`], the bytes of `{}`), and a
+//! value in a decimal unit such as MHz ([`write_scaled`]).
 //!
 //! Why not `core::fmt`: its float formatting (`flt2dec`, with its `bignum`) keeps panic paths
 //! that the link-time panic-freedom proof (`boards/panic-proof`) rejects. Here every value is
@@ -331,22 +332,62 @@ pub fn write_shortest<W: Write>(w: &mut W, x: f32) -> fmt::Result {
     }
 }
 
-/// Write `x / 10^shift` (for example hertz as megahertz, `shift` 6) as the shortest decimal
-/// whose value times 10^`shift` lies strictly inside the interval of reals that round to `x`,
-/// in plain notation. Strictly inside, so that a reader that multiplies by 10^`shift` in
-/// floating point still gets `x` back.
-pub fn write_shortest_scaled<W: Write>(w: &mut W, x: f32, shift: u8) -> fmt::Result {
-    match shortest_parts(x, true) {
-        Ok((negative, digits, t)) => {
-            let t = if digits == 0 {
-                0
-            } else {
-                t.wrapping_sub(i32::from(shift))
-            };
-            write_plain(w, negative, digits, t)
-        }
-        Err(token) => w.write_str(token),
+/// The exact decimal value of `|x|` as `digits · 10^exp10` when it has at most 15
+/// significant digits, else `None`.
+fn exact_short(d: &Decoded) -> Option<(u64, i32)> {
+    const LIMIT: u128 = 1_000_000_000_000_000; // 10^15
+    let (mut n, mut t) = if d.e >= 0 {
+        (u128::from(d.m).checked_shl(d.e.unsigned_abs())?, 0i32)
+    } else {
+        // m · 2^−s = m · 5^s / 10^s.
+        let s = d.e.unsigned_abs();
+        (
+            u128::from(d.m).checked_mul(pow5_u128(s)?)?,
+            d.e, // −s
+        )
+    };
+    if n == 0 {
+        return Some((0, 0));
     }
+    while n % 10 == 0 {
+        n /= 10;
+        t = t.wrapping_add(1);
+    }
+    if n < LIMIT {
+        Some((u64::try_from(n).ok()?, t))
+    } else {
+        None
+    }
+}
+
+/// Write `x / 10^shift` (for example hertz as megahertz, `shift` 6) in plain notation: its
+/// exact decimal value when that has at most 15 significant digits (for a frequency in
+/// hertz, every f32 from 4096 to 10^15), else the shortest decimal whose value times
+/// 10^`shift` lies strictly inside the interval of reals that round to `x`. Either reads back
+/// to `x`, also when a reader multiplies by 10^`shift` in floating point (hence "strictly").
+///
+/// In the exact case the bytes are those of `write!(w, "{}", x as f64 / 10^shift)`: an exact
+/// decimal of at most 15 digits is the shortest form of the nearest `f64`.
+pub fn write_scaled<W: Write>(w: &mut W, x: f32, shift: u8) -> fmt::Result {
+    let d = match decode(x) {
+        Kind::Finite(d) => d,
+        Kind::Nan => return w.write_str("NaN"),
+        Kind::Infinite(false) => return w.write_str("inf"),
+        Kind::Infinite(true) => return w.write_str("-inf"),
+    };
+    let (digits, t) = match exact_short(&d) {
+        Some(p) => p,
+        None => match shortest_parts(x, true) {
+            Ok((_, digits, t)) => (digits, t),
+            Err(token) => return w.write_str(token),
+        },
+    };
+    let t = if digits == 0 {
+        0
+    } else {
+        t.wrapping_sub(i32::from(shift))
+    };
+    write_plain(w, d.negative, digits, t)
 }
 
 #[cfg(test)]
@@ -417,13 +458,13 @@ mod tests {
             assert_eq!(shortest(x).as_str(), want, "{x}");
         }
         let mut s: String<40> = String::new();
-        write_shortest_scaled(&mut s, 140.25e6, 6).unwrap();
+        write_scaled(&mut s, 140.25e6, 6).unwrap();
         assert_eq!(s.as_str(), "140.25");
         s.clear();
-        write_shortest_scaled(&mut s, 1.5e3, 9).unwrap();
+        write_scaled(&mut s, 1.5e3, 9).unwrap();
         assert_eq!(s.as_str(), "0.0000015");
         s.clear();
-        write_shortest_scaled(&mut s, 0.0, 9).unwrap();
+        write_scaled(&mut s, 0.0, 9).unwrap();
         assert_eq!(s.as_str(), "0");
     }
 }

@@ -2,7 +2,7 @@
 //! (`format!("{:>w$.d$}")` and `format!("{}")` for `f32`, the `core::fmt` float formatting
 //! that the core no longer uses), over every exponent and many mantissas.
 
-use feedline::fmt_decimal::{write_fixed, write_shortest, write_shortest_scaled};
+use feedline::fmt_decimal::{write_fixed, write_scaled, write_shortest};
 
 /// xorshift32: reproducible pseudo-random bit patterns.
 fn patterns(n: usize) -> impl Iterator<Item = u32> {
@@ -79,11 +79,30 @@ fn scaled_reads_back_after_multiplying() {
         }
         for shift in [0u8, 3, 6, 9] {
             let mut ours = String::new();
-            write_shortest_scaled(&mut ours, x, shift).unwrap();
+            write_scaled(&mut ours, x, shift).unwrap();
             assert!(!ours.contains(['e', 'E']), "{ours}");
             let v: f64 = ours.parse().unwrap();
             let back = (v * 10f64.powi(i32::from(shift))) as f32;
             assert_eq!(back.to_bits(), x.to_bits(), "{x:e} shift {shift}: {ours}");
         }
     }
+}
+
+/// In its exact range the scaled form is what std's `f64` Display writes for `x / 10^shift`
+/// (the writer's former output).
+#[test]
+fn scaled_matches_std_f64_in_its_exact_range() {
+    let mut checked = 0usize;
+    for x in values() {
+        if !(4096.0..1.0e15).contains(&x) {
+            continue;
+        }
+        for (shift, unit) in [(0u8, 1.0f64), (3, 1e3), (6, 1e6), (9, 1e9)] {
+            let mut ours = String::new();
+            write_scaled(&mut ours, x, shift).unwrap();
+            assert_eq!(ours, format!("{}", x as f64 / unit), "{x:e} shift {shift}");
+            checked += 1;
+        }
+    }
+    println!("scaled: {checked} strings identical to std f64 Display");
 }
