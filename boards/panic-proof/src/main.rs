@@ -173,7 +173,6 @@ mod proof {
                 min_separation: Meters::new(0.5),
                 max_distance: Meters::new(40.0),
             }));
-            #[cfg(feature = "text")]
             {
                 let mut sink = Sink(0);
                 keep(feedline::plot::fault_table(&mut sink, &faults));
@@ -253,10 +252,8 @@ mod proof {
     }
 
     /// A `core::fmt::Write` sink that keeps what it is given alive and stores nothing.
-    #[cfg(feature = "text")]
     struct Sink(usize);
 
-    #[cfg(feature = "text")]
     impl core::fmt::Write for Sink {
         fn write_str(&mut self, s: &str) -> core::fmt::Result {
             keep(s);
@@ -265,10 +262,9 @@ mod proof {
         }
     }
 
-    /// The text and byte-stream modules (report, command, touchstone, plot). Behind the `text`
-    /// feature because they do not link yet: core's float formatting (`flt2dec`, `bignum`)
-    /// and `&str`-pattern search (`TwoWaySearcher`) that they reach contain panic paths.
-    #[cfg(feature = "text")]
+    /// The text and byte-stream modules (report, command, touchstone, plot) and the decimal
+    /// writer they use (`fmt_decimal`), second pass over report and command beside
+    /// `proto.rs`.
     fn prove_text() {
         use feedline::command::{self, Console, Settings};
         use feedline::report::{self, checksum, frame, line, FrameDecoder, Record};
@@ -351,6 +347,13 @@ mod proof {
             let chart = feedline::plot::VswrChart::new(input(40), top, Some(th));
             keep(chart.header(&mut sink));
             keep(chart.row(&mut sink, Hertz::new(input(1.0e8)), th, Some(input("min"))));
+        }
+        {
+            use feedline::fmt_decimal::{write_fixed, write_scaled, write_shortest};
+            let x = input(-123.456f32);
+            keep(write_fixed(&mut sink, x, input(3), input(12)));
+            keep(write_shortest(&mut sink, x));
+            keep(write_scaled(&mut sink, x, input(6)));
         }
         keep(sink.0);
     }
@@ -1106,7 +1109,6 @@ mod proof {
         prove_analysis();
         prove_sweep_plan();
         prove_sweep_run();
-        #[cfg(feature = "text")]
         prove_text();
         prove_vector();
         prove_calibration();

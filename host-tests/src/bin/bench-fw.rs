@@ -1262,17 +1262,10 @@ fn panic_proof() -> ExitCode {
                     "panic-proof {} ({what}): links, no panic path reachable",
                     core.triple()
                 ),
-                Err(e) if what == "release" => {
+                Err(e) => {
                     ok = false;
                     println!("panic-proof {} ({what}): FAILED\n{e}", core.triple());
                 }
-                // Informational until the overflow paths listed in
-                // host-tests/tests/panic_proof.rs are gone.
-                Err(e) => println!(
-                    "panic-proof {} ({what}): does not link (informational): {}",
-                    core.triple(),
-                    first_error_line(&e)
-                ),
             }
         }
     }
