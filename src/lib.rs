@@ -34,6 +34,7 @@ pub mod detector;
 pub mod dtf;
 pub mod fixed;
 mod float;
+pub mod fmt_decimal;
 pub mod line;
 pub mod monitor;
 pub mod plot;

@@ -10,6 +10,7 @@
 //! Panic policy: nothing here panics; write failures give [`core::fmt::Error`].
 
 use crate::dtf::Fault;
+use crate::fmt_decimal::write_fixed;
 use crate::reflection::Vswr;
 use crate::units::Hertz;
 use core::fmt::{self, Write};
@@ -49,12 +50,9 @@ impl VswrChart {
 
     /// The header and ruler rows.
     pub fn header<W: Write>(&self, w: &mut W) -> fmt::Result {
-        writeln!(
-            w,
-            "      MHz   VSWR  1{:>width$.1}",
-            self.top,
-            width = self.columns
-        )?;
+        w.write_str("      MHz   VSWR  1")?;
+        write_fixed(w, self.top, 1, self.columns)?;
+        w.write_char('\n')?;
         w.write_str("                 ")?;
         let ticks = [1.5f32, 2.0, 3.0, 5.0];
         for c in 0..=self.columns {
@@ -75,7 +73,10 @@ impl VswrChart {
         note: Option<&str>,
     ) -> fmt::Result {
         let s = vswr.value();
-        write!(w, "{:>9.3} {:>6.2} |", f.value() * 1.0e-6, s)?;
+        write_fixed(w, f.value() * 1.0e-6, 3, 9)?;
+        w.write_char(' ')?;
+        write_fixed(w, s, 2, 6)?;
+        w.write_str(" |")?;
         let fill = self.column(s);
         let mark = self.threshold.and_then(|t| self.column(t));
         for c in 1..=self.columns {
@@ -102,13 +103,11 @@ pub fn fault_table<W: Write>(w: &mut W, faults: &[Fault]) -> fmt::Result {
         return writeln!(w, "  (no reflection above the threshold)");
     }
     for (i, f) in faults.iter().enumerate() {
-        writeln!(
-            w,
-            "  {:>3}  {:>10.2}  {:>14.1}",
-            i.saturating_add(1),
-            f.distance.value(),
-            f.return_loss.value()
-        )?;
+        write!(w, "  {:>3}  ", i.saturating_add(1))?;
+        write_fixed(w, f.distance.value(), 2, 10)?;
+        w.write_str("  ")?;
+        write_fixed(w, f.return_loss.value(), 1, 14)?;
+        w.write_char('\n')?;
     }
     Ok(())
 }

@@ -12,9 +12,14 @@
 //! - one data line per point, `<frequency> <S11 part 1> <S11 part 2>`, frequencies strictly
 //!   increasing (the specification requires ascending order).
 //!
-//! Numbers: frequency in the chosen unit with the shortest decimal that reads back to the
-//! same f32 frequency; magnitudes and real/imaginary parts with 6 decimals, dB with 4,
-//! angles (degrees) with 3. A zero magnitude in `DB` format is written as −[`DB_CEILING`] dB.
+//! Numbers: frequency in the chosen unit, its exact decimal value when that has at most 15
+//! significant digits (every f32 frequency from 4096 Hz to 10^15 Hz), else the shortest
+//! decimal that reads back to the same f32 frequency (also after a reader multiplies it by
+//! the unit); magnitudes and
+//! real/imaginary parts with 6 decimals, dB with 4, angles (degrees) with 3, rounded to
+//! nearest (ties to even); the reference impedance as the shortest decimal of its f32. All are
+//! written by [`crate::fmt_decimal`] (integer arithmetic, no `core::fmt` float formatting). A
+//! zero magnitude in `DB` format is written as −[`DB_CEILING`] dB.
 //!
 //! Not supported: 2-port and larger files, version 2.0 keywords, noise data, other
 //! parameters than S.
@@ -22,6 +27,7 @@
 //! Panic policy: nothing here panics; write failures and bad points give a
 //! [`TouchstoneError`].
 
+use crate::fmt_decimal::{write_fixed, write_scaled, write_shortest};
 use crate::reflection::DB_CEILING;
 use crate::units::{Hertz, Ohms};
 use core::fmt::Write;
@@ -49,6 +55,16 @@ impl FrequencyUnit {
             FrequencyUnit::KHz => "KHZ",
             FrequencyUnit::MHz => "MHZ",
             FrequencyUnit::GHz => "GHZ",
+        }
+    }
+
+    /// The power of ten of hertz per unit (0, 3, 6 or 9).
+    pub fn decimal_shift(self) -> u8 {
+        match self {
+            FrequencyUnit::Hz => 0,
+            FrequencyUnit::KHz => 3,
+            FrequencyUnit::MHz => 6,
+            FrequencyUnit::GHz => 9,
         }
     }
 
@@ -158,13 +174,14 @@ impl<W: Write> TouchstoneWriter<W> {
         if self.option_written {
             return Ok(());
         }
-        writeln!(
+        write!(
             self.out,
-            "# {} S {} R {}",
+            "# {} S {} R ",
             self.unit.token(),
-            self.format.token(),
-            self.z0
+            self.format.token()
         )?;
+        write_shortest(&mut self.out, self.z0)?;
+        self.out.write_char('\n')?;
         self.option_written = true;
         Ok(())
     }
@@ -179,28 +196,31 @@ impl<W: Write> TouchstoneWriter<W> {
             return Err(TouchstoneError::NotIncreasing);
         }
         self.option_line()?;
-        let fu = f as f64 / self.unit.hertz();
-        write!(self.out, "{fu}")?;
+        write_scaled(&mut self.out, f, self.unit.decimal_shift())?;
         let mag = gamma.norm();
         let deg = if mag > 0.0 {
             libm::atan2f(gamma.im, gamma.re).to_degrees()
         } else {
             0.0
         };
-        match self.format {
-            DataFormat::MagnitudeAngle => writeln!(self.out, " {:.6} {:.3}", mag, deg + 0.0)?,
+        // `+ 0.0` turns −0 into +0, so no "-0.000" is written for a zero part.
+        let (a, da, b, db) = match self.format {
+            DataFormat::MagnitudeAngle => (mag, 6, deg + 0.0, 3),
             DataFormat::DecibelAngle => {
                 let db = if mag > 0.0 {
                     (20.0 * libm::log10f(mag)).max(-DB_CEILING)
                 } else {
                     -DB_CEILING
                 };
-                writeln!(self.out, " {:.4} {:.3}", db, deg + 0.0)?
+                (db, 4, deg + 0.0, 3)
             }
-            DataFormat::RealImaginary => {
-                writeln!(self.out, " {:.6} {:.6}", gamma.re + 0.0, gamma.im + 0.0)?
-            }
-        }
+            DataFormat::RealImaginary => (gamma.re + 0.0, 6, gamma.im + 0.0, 6),
+        };
+        self.out.write_char(' ')?;
+        write_fixed(&mut self.out, a, da, 0)?;
+        self.out.write_char(' ')?;
+        write_fixed(&mut self.out, b, db, 0)?;
+        self.out.write_char('\n')?;
         self.last = Some(f);
         self.points = self.points.saturating_add(1);
         Ok(())

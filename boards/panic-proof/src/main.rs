@@ -173,7 +173,6 @@ mod proof {
                 min_separation: Meters::new(0.5),
                 max_distance: Meters::new(40.0),
             }));
-            #[cfg(feature = "text")]
             {
                 let mut sink = Sink(0);
                 keep(feedline::plot::fault_table(&mut sink, &faults));
@@ -253,10 +252,8 @@ mod proof {
     }
 
     /// A `core::fmt::Write` sink that keeps what it is given alive and stores nothing.
-    #[cfg(feature = "text")]
     struct Sink(usize);
 
-    #[cfg(feature = "text")]
     impl core::fmt::Write for Sink {
         fn write_str(&mut self, s: &str) -> core::fmt::Result {
             keep(s);
@@ -265,10 +262,9 @@ mod proof {
         }
     }
 
-    /// The text and byte-stream modules (report, command, touchstone, plot). Behind the `text`
-    /// feature because they do not link yet: core's float formatting (`flt2dec`, `bignum`)
-    /// and `&str`-pattern search (`TwoWaySearcher`) that they reach contain panic paths.
-    #[cfg(feature = "text")]
+    /// The text and byte-stream modules (report, command, touchstone, plot) and the decimal
+    /// writer they use (`fmt_decimal`), second pass over report and command beside
+    /// `proto.rs`.
     fn prove_text() {
         use feedline::command::{self, Console, Settings};
         use feedline::report::{self, checksum, frame, line, FrameDecoder, Record};
@@ -352,6 +348,13 @@ mod proof {
             keep(chart.header(&mut sink));
             keep(chart.row(&mut sink, Hertz::new(input(1.0e8)), th, Some(input("min"))));
         }
+        {
+            use feedline::fmt_decimal::{write_fixed, write_scaled, write_shortest};
+            let x = input(-123.456f32);
+            keep(write_fixed(&mut sink, x, input(3), input(12)));
+            keep(write_shortest(&mut sink, x));
+            keep(write_scaled(&mut sink, x, input(6)));
+        }
         keep(sink.0);
     }
 
@@ -380,67 +383,120 @@ mod proof {
                 for x in plan.iter() {
                     keep(x);
                 }
-                prove_run_sweep(&plan);
             }
         }
     }
 
-    /// The generic runner over stub hardware whose behaviour the optimizer cannot see.
-    fn prove_run_sweep(plan: &feedline::sweep::SweepPlan<64>) {
-        use feedline::sweep::{run_sweep, Flow, FrequencySource, PointReader, SweepPoint};
-        struct Source;
-        impl FrequencySource for Source {
-            type Error = u8;
-            fn set_frequency(&mut self, frequency: Hertz) -> Result<(), u8> {
-                if input(frequency.value()) > 1.0e9 {
-                    Err(1)
-                } else {
-                    Ok(())
-                }
-            }
-            fn settling_time_us(&self, from: Option<Hertz>, _to: Hertz) -> u32 {
-                input(if from.is_some() { 10 } else { 100 })
+    /// A synthesizer stub whose tuning may fail when the optimizer cannot tell.
+    struct ProofSource;
+    impl feedline::sweep::FrequencySource for ProofSource {
+        type Error = ();
+        fn set_frequency(&mut self, frequency: Hertz) -> Result<(), ()> {
+            keep(frequency);
+            if input(false) {
+                Err(())
+            } else {
+                Ok(())
             }
         }
-        struct Reader;
-        impl PointReader for Reader {
-            type Reading = f32;
-            type Error = u8;
-            fn read_point(&mut self, frequency: Hertz) -> Result<f32, u8> {
-                let x = input(frequency.value() * 1.0e-9);
-                if x < 0.0 {
-                    Err(2)
-                } else {
-                    Ok(x)
-                }
+        fn settling_time_us(&self, from: Option<Hertz>, to: Hertz) -> u32 {
+            keep((from, to));
+            input(100)
+        }
+    }
+
+    /// A reader stub: Γ the optimizer cannot see, or a failure.
+    struct ProofReader;
+    impl feedline::sweep::PointReader for ProofReader {
+        type Reading = Complex32;
+        type Error = u8;
+        fn read_point(&mut self, frequency: Hertz) -> Result<Complex32, u8> {
+            keep(frequency);
+            if input(false) {
+                Err(input(1))
+            } else {
+                Ok(c(0.2, -0.1))
             }
         }
-        struct Delay;
-        impl embedded_hal::delay::DelayNs for Delay {
-            fn delay_ns(&mut self, ns: u32) {
-                keep(ns);
+    }
+
+    /// A delay that only keeps its argument alive.
+    struct ProofDelay;
+    impl embedded_hal::delay::DelayNs for ProofDelay {
+        fn delay_ns(&mut self, ns: u32) {
+            keep(ns);
+        }
+    }
+
+    /// A sink that stores the sweep in a fixed buffer and may stop it early.
+    struct ProofSink {
+        points: [Complex32; 64],
+        stored: usize,
+    }
+    impl feedline::sweep::PointSink<Complex32> for ProofSink {
+        fn accept(
+            &mut self,
+            point: &feedline::sweep::SweepPoint<Complex32>,
+        ) -> feedline::sweep::Flow {
+            if let Some(slot) = self.points.get_mut(point.index) {
+                *slot = point.reading;
+                self.stored = self.stored.saturating_add(1);
+            }
+            if input(false) {
+                feedline::sweep::Flow::Stop
+            } else {
+                feedline::sweep::Flow::Continue
             }
         }
-        let mut sink = |p: &SweepPoint<f32>| {
-            keep(p.reading);
-            if input(p.index) > 60 {
+    }
+
+    fn prove_sweep_run() {
+        use feedline::sweep::{run_sweep, Flow, NoProgress, Spacing, SweepPlan, SweepPoint};
+        let Ok(plan) = SweepPlan::<64>::from_start_stop(
+            Hertz::new(input(1.0e6)),
+            Hertz::new(input(3.0e7)),
+            input(64),
+            input(Spacing::Linear),
+        ) else {
+            return;
+        };
+        let mut sink = ProofSink {
+            points: [Complex32::new(0.0, 0.0); 64],
+            stored: 0,
+        };
+        let mut cancel = |done: usize, total: usize| {
+            keep((done, total));
+            if input(false) {
                 Flow::Stop
             } else {
                 Flow::Continue
             }
         };
-        let mut progress = |done: usize, total: usize| {
-            keep((done, total));
-            input(Flow::Continue)
+        keep(run_sweep(
+            &plan,
+            &mut ProofSource,
+            &mut ProofReader,
+            &mut ProofDelay,
+            &mut sink,
+            &mut cancel,
+        ));
+        keep(sink.stored);
+        keep(sink.points);
+        let mut last = input(0usize);
+        let mut closure_sink = |p: &SweepPoint<Complex32>| {
+            last = p.index;
+            keep(p.frequency);
+            Flow::Continue
         };
         keep(run_sweep(
-            plan,
-            &mut Source,
-            &mut Reader,
-            &mut Delay,
-            &mut sink,
-            &mut progress,
+            &plan,
+            &mut ProofSource,
+            &mut ProofReader,
+            &mut ProofDelay,
+            &mut closure_sink,
+            &mut NoProgress,
         ));
+        keep(last);
     }
 
     /// Keeps a result alive: the optimizer must assume it is read.
@@ -1066,7 +1122,7 @@ mod proof {
         prove_dtf();
         prove_analysis();
         prove_sweep_plan();
-        #[cfg(feature = "text")]
+        prove_sweep_run();
         prove_text();
         prove_vector();
         prove_calibration();
