@@ -32,9 +32,9 @@
 //! and computes the bridge leakage once, so a reading is integer comparisons, one division
 //! (|Γ| = Vr/Vf for a linear detector), the reflection relations with the crate's short
 //! `log2`, and one comparison for [`Quality::BEYOND_DIRECTIVITY`]. The directivity bounds are
-//! computed only when asked ([`Measurement::bounds`]). Measured: about 130 instructions per
-//! reading on a Cortex-M4F and 4 400 on a Cortex-M0 (host-tests/BENCHMARKS.md), where plain
-//! f32 code with libm's `log10f` and no verdict takes about 150 and 8 000.
+//! computed only when asked ([`Measurement::bounds`]). Measured: 112 instructions per reading
+//! on a Cortex-M4F and 3 780 on a Cortex-M0 (host-tests/BENCHMARKS.md), where plain f32 code
+//! with libm's `log10f` and no verdict takes 153 and 8 050.
 //!
 //! Panic policy: nothing in this module panics, and no NaN or infinity leaves it.
 
