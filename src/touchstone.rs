@@ -13,13 +13,12 @@
 //!   increasing (the specification requires ascending order).
 //!
 //! Numbers: frequency in the chosen unit, its exact decimal value when that has at most 15
-//! significant digits (every f32 frequency from 4096 Hz to 10^15 Hz), else the shortest
-//! decimal that reads back to the same f32 frequency (also after a reader multiplies it by
-//! the unit); magnitudes and
-//! real/imaginary parts with 6 decimals, dB with 4, angles (degrees) with 3, rounded to
-//! nearest (ties to even); the reference impedance as the shortest decimal of its f32. All are
-//! written by [`crate::fmt_decimal`] (integer arithmetic, no `core::fmt` float formatting). A
-//! zero magnitude in `DB` format is written as −[`DB_CEILING`] dB.
+//! significant digits (every f32 frequency from 4096 Hz to 10^15 Hz), else the shortest decimal
+//! that reads back to the same f32 frequency (also after a reader multiplies it by the unit);
+//! magnitudes and real/imaginary parts with 6 decimals, dB with 4, angles (degrees) with 3,
+//! rounded to nearest (ties to even); the reference impedance as the shortest decimal of its
+//! f32. All are written by [`crate::fmt_decimal`] (integer arithmetic, no `core::fmt` float
+//! formatting). A zero magnitude in `DB` format is written as −[`DB_CEILING`] dB.
 //!
 //! Not supported: 2-port and larger files, version 2.0 keywords, noise data, other
 //! parameters than S.
